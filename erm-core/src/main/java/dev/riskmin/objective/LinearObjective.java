@@ -89,6 +89,11 @@ public final class LinearObjective implements Objective, LinearStructure {
     }
 
     @Override
+    public double weightedLoss(double z, int i) {
+        return omega(i) * loss.value(z, y[i]);
+    }
+
+    @Override
     public double weightedDerivative(double z, int i) {
         return omega(i) * loss.derivative(z, y[i]);
     }

@@ -18,6 +18,9 @@ public interface LinearStructure {
     /** @return z<sub>i</sub> = w·x<sub>i</sub> + b */
     double prediction(double[] h, int i);
 
+    /** @return ω<sub>i</sub> ℓ(z, y<sub>i</sub>) */
+    double weightedLoss(double z, int i);
+
     /** @return ω<sub>i</sub> ∂ℓ/∂z at (z, y<sub>i</sub>) */
     double weightedDerivative(double z, int i);
 

@@ -1,0 +1,173 @@
+package dev.riskmin;
+
+import dev.riskmin.model.LinearModel;
+import dev.riskmin.model.MulticlassModel;
+
+import java.time.Duration;
+import java.util.List;
+
+/**
+ * The outcome of one fit: the model (for linear objectives), the parameters, why the fit stopped,
+ * and what it cost. Immutable.
+ *
+ * <p>A converged fit is not a validated model: check it on held-out data and, where it drives
+ * decisions about people, money or safety, under the domain's own rules and review.
+ */
+public final class Fit {
+    private final LinearModel model;
+    private final MulticlassModel multiclassModel;
+    private final double[] parameters;
+    private final double[] lastIterate;
+    private final boolean averaged;
+    private final StopReason stopReason;
+    private final String stopDetail;
+    private final long steps;
+    private final double epochs;
+    private final long gradientEvaluations;
+    private final long probeEvaluations;
+    private final Duration wallTime;
+    private final double initialObjective;
+    private final double finalObjective;
+    private final double stepSizeFactor;
+    private final int finalBatchSize;
+    private final List<String> listenerFailures;
+
+    Fit(LinearModel model, MulticlassModel multiclassModel, double[] parameters, double[] lastIterate,
+        boolean averaged, StopReason stopReason, String stopDetail, long steps, double epochs,
+        long gradientEvaluations, long probeEvaluations, Duration wallTime, double initialObjective,
+        double finalObjective, double stepSizeFactor, int finalBatchSize, List<String> listenerFailures) {
+        this.model = model;
+        this.multiclassModel = multiclassModel;
+        this.parameters = parameters;
+        this.lastIterate = lastIterate;
+        this.averaged = averaged;
+        this.stopReason = stopReason;
+        this.stopDetail = stopDetail;
+        this.steps = steps;
+        this.epochs = epochs;
+        this.gradientEvaluations = gradientEvaluations;
+        this.probeEvaluations = probeEvaluations;
+        this.wallTime = wallTime;
+        this.initialObjective = initialObjective;
+        this.finalObjective = finalObjective;
+        this.stepSizeFactor = stepSizeFactor;
+        this.finalBatchSize = finalBatchSize;
+        this.listenerFailures = List.copyOf(listenerFailures);
+    }
+
+    /**
+     * @return the single-output linear model on the original feature scale
+     * @throws IllegalStateException if the fit was multiclass or of a general objective
+     */
+    public LinearModel model() {
+        if (model == null) {
+            throw new IllegalStateException(multiclassModel != null
+                    ? "this fit is multiclass: use multiclassModel()"
+                    : "a fit of a general objective has no linear model: use parameters()");
+        }
+        return model;
+    }
+
+    /**
+     * @return the K-class linear model on the original feature scale
+     * @throws IllegalStateException if the fit was not multiclass
+     */
+    public MulticlassModel multiclassModel() {
+        if (multiclassModel == null) {
+            throw new IllegalStateException("this fit is not multiclass: use model() or parameters()");
+        }
+        return multiclassModel;
+    }
+
+    /** @return whether {@link #model()} is available */
+    public boolean hasModel() {
+        return model != null;
+    }
+
+    /**
+     * @return a copy of the returned parameters h (the average when averaging was on, else the last
+     * iterate), in the objective's layout and, for linear models, on the original feature scale;
+     * always finite
+     */
+    public double[] parameters() {
+        return parameters.clone();
+    }
+
+    /** @return a copy of the last iterate (same layout and scale as {@link #parameters()}); always finite */
+    public double[] lastIterate() {
+        return lastIterate.clone();
+    }
+
+    /** @return whether {@link #parameters()} is an average of iterates */
+    public boolean averaged() {
+        return averaged;
+    }
+
+    public StopReason stopReason() {
+        return stopReason;
+    }
+
+    /** @return the reason in words, with its figures */
+    public String stopDetail() {
+        return stopDetail;
+    }
+
+    /** @return steps taken */
+    public long steps() {
+        return steps;
+    }
+
+    /** @return passes over the data: draws / n */
+    public double epochs() {
+        return epochs;
+    }
+
+    /** @return per-sample gradient evaluations spent by the update rule */
+    public long gradientEvaluations() {
+        return gradientEvaluations;
+    }
+
+    /** @return per-sample gradient evaluations spent by listeners through the probe */
+    public long probeEvaluations() {
+        return probeEvaluations;
+    }
+
+    public Duration wallTime() {
+        return wallTime;
+    }
+
+    /**
+     * @return an estimate of the objective at the starting point (mean over up to 4,096 evenly spaced
+     * samples plus the penalty), on the scale the problem was fitted on
+     */
+    public double initialObjective() {
+        return initialObjective;
+    }
+
+    /** @return L(h) at the returned parameters, over all n samples, on the scale the problem was fitted on */
+    public double finalObjective() {
+        return finalObjective;
+    }
+
+    /** @return the product of step-size factors that listeners asked for */
+    public double stepSizeFactor() {
+        return stepSizeFactor;
+    }
+
+    /** @return the batch size in force at the end */
+    public int finalBatchSize() {
+        return finalBatchSize;
+    }
+
+    /** @return one line per listener that threw and was detached */
+    public List<String> listenerFailures() {
+        return listenerFailures;
+    }
+
+    @Override
+    public String toString() {
+        return "Fit[" + stopReason + (stopDetail.isEmpty() ? "" : " (" + stopDetail + ")") + ", steps=" + steps
+                + ", epochs=" + String.format("%.3f", epochs) + ", evaluations=" + gradientEvaluations
+                + ", objective=" + finalObjective + ", time=" + wallTime.toMillis() + " ms]";
+    }
+}

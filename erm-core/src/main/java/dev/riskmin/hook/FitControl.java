@@ -1,0 +1,35 @@
+package dev.riskmin.hook;
+
+import dev.riskmin.StopReason;
+
+/**
+ * A listener's answers to the fit. Requests take effect from the current step on (a halt stops
+ * before the parameters move); none allocates.
+ */
+public interface FitControl {
+
+    /**
+     * Stops the fit after this listener call. The first halt of a step wins.
+     *
+     * @param detail a human-readable reason with its figures (e.g. "gradient norm 3.1e-7 < 1e-6")
+     */
+    void halt(StopReason reason, String detail);
+
+    /**
+     * Multiplies every later step size by {@code factor} (cumulative: two halvings make a quarter).
+     *
+     * @throws IllegalArgumentException if factor is not finite and &gt; 0
+     */
+    void scaleStepSize(double factor);
+
+    /**
+     * Asks for batches of {@code size} from the next step on (clamped to n for sampling without
+     * replacement).
+     *
+     * @throws IllegalArgumentException if size &lt; 1
+     */
+    void requestBatchSize(int size);
+
+    /** @return the product of all step-size factors asked for so far */
+    double stepSizeFactor();
+}

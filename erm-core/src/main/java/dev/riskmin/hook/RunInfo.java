@@ -1,0 +1,21 @@
+package dev.riskmin.hook;
+
+/**
+ * What a fit is about to do: sizes, the configuration's names, and the budget.
+ *
+ * @param sampleCount     n
+ * @param dimension       p, the number of parameters
+ * @param batchSize       the starting B
+ * @param withReplacement whether batches are drawn with replacement (false: without, stratified or sequential)
+ * @param loss            the loss's name
+ * @param penalty         the penalty's name
+ * @param updateRule      the update rule's name
+ * @param schedule        the step schedule's name
+ * @param sampling        the sampling's name
+ * @param plannedSteps    the step budget implied by the step and epoch budgets, or -1 if none
+ * @param seed            the seed of every random choice of the fit
+ */
+public record RunInfo(int sampleCount, int dimension, int batchSize, boolean withReplacement, String loss,
+                      String penalty, String updateRule, String schedule, String sampling, long plannedSteps,
+                      long seed) {
+}
