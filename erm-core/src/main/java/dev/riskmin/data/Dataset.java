@@ -44,25 +44,28 @@ public final class Dataset {
                 throw new IllegalArgumentException("weights have " + b.weights.length + " entries, but features have "
                         + n + " rows");
             }
-            double sum = 0;
+            double max = 0;
             for (int i = 0; i < n; i++) {
                 double w = b.weights[i];
                 if (!Double.isFinite(w) || w < 0) {
                     throw new IllegalArgumentException("weights[" + i + "] (" + w + ") must be finite and >= 0");
                 }
-                sum += w;
+                max = Math.max(max, w);
             }
-            if (!(sum > 0)) {
+            if (!(max > 0)) {
                 throw new IllegalArgumentException("weights are all zero (" + n + " rows): nothing to fit");
             }
-            if (Double.isInfinite(sum)) {
-                throw new IllegalArgumentException("weights sum to infinity; rescale them");
+            // Dividing by the largest weight first keeps the sum in [1, n] and n / sum in [1, n], so
+            // neither huge weights (sum overflows) nor subnormal ones (n / sum overflows) break ω.
+            double sum = 0;
+            for (int i = 0; i < n; i++) {
+                sum += b.weights[i] / max;
             }
             this.weights = b.weights;
             this.normalizedWeights = new double[n];
             double scale = n / sum;
             for (int i = 0; i < n; i++) {
-                normalizedWeights[i] = b.weights[i] * scale;
+                normalizedWeights[i] = (b.weights[i] / max) * scale;
             }
         } else {
             this.weights = null;

@@ -53,13 +53,17 @@ public final class SparseFeatures implements FeatureMatrix {
             throw new IllegalArgumentException("rowStart[" + rows + "] (" + rowStart[rows]
                     + ") must equal the number of values (" + values.length + ")");
         }
+        // All row pointers are checked before any entry is read: a pointer beyond the end in the
+        // middle (0, 5, 3 with 3 values) would otherwise index past the arrays in the first row.
+        for (int i = 0; i < rows; i++) {
+            if (rowStart[i + 1] < rowStart[i]) {
+                throw new IllegalArgumentException("rowStart[" + (i + 1) + "] (" + rowStart[i + 1]
+                        + ") is less than rowStart[" + i + "] (" + rowStart[i] + ")");
+            }
+        }
         for (int i = 0; i < rows; i++) {
             int from = rowStart[i];
             int to = rowStart[i + 1];
-            if (to < from) {
-                throw new IllegalArgumentException("rowStart[" + (i + 1) + "] (" + to + ") is less than rowStart["
-                        + i + "] (" + from + ")");
-            }
             int previous = -1;
             for (int k = from; k < to; k++) {
                 int c = columnIndex[k];
