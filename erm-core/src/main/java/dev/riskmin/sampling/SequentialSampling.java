@@ -8,6 +8,7 @@ import java.util.random.RandomGenerator;
  * each batch is the next B of them (a batch may wrap around from n−1 to 0). Every scale is 1. Useful
  * for reproducing cyclic (incremental) gradient methods and for tests; on data stored in a
  * meaningful order the batches are not representative, so prefer a random sampler for fitting.
+ * (Common practice, no source.)
  */
 public final class SequentialSampling implements Sampling {
     static final SequentialSampling INSTANCE = new SequentialSampling();
