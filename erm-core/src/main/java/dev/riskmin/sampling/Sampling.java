@@ -29,4 +29,47 @@ public interface Sampling {
 
     /** @return a short name for reports */
     String name();
+
+    /** @return uniform draws with replacement, i.i.d. on {0, …, n−1} (see {@link WithReplacementSampling}) */
+    static Sampling withReplacement() {
+        return WithReplacementSampling.INSTANCE;
+    }
+
+    /**
+     * @return uniform draws without replacement: a fresh random permutation each epoch, batches taken
+     * as consecutive runs of it (see {@link WithoutReplacementSampling}); needs B ≤ n
+     */
+    static Sampling withoutReplacement() {
+        return WithoutReplacementSampling.INSTANCE;
+    }
+
+    /**
+     * @return stratified draws: each batch keeps every stratum within ±1 of its proportional count,
+     * without replacement inside a stratum (see {@link StratifiedSampling}); needs strata and B ≤ n
+     */
+    static Sampling stratified() {
+        return StratifiedSampling.INSTANCE;
+    }
+
+    /**
+     * @return importance sampling by per-sample smoothness with uniform share ½:
+     * p<sub>i</sub> = 1/(2n) + L<sub>i</sub>/(2 Σ L), scales 1/(n p<sub>i</sub>) (see {@link ImportanceSampling})
+     */
+    static Sampling importance() {
+        return ImportanceSampling.of(ImportanceSampling.DEFAULT_UNIFORM_SHARE);
+    }
+
+    /**
+     * @param uniformShare u in (0, 1]: p<sub>i</sub> = u/n + (1 − u) L<sub>i</sub>/Σ L (1 means uniform)
+     * @return importance sampling by per-sample smoothness (see {@link ImportanceSampling})
+     * @throws IllegalArgumentException naming uniformShare if it is outside (0, 1] or NaN
+     */
+    static Sampling importance(double uniformShare) {
+        return ImportanceSampling.of(uniformShare);
+    }
+
+    /** @return the samples in storage order 0, 1, …, n−1, 0, 1, …, without randomness (see {@link SequentialSampling}) */
+    static Sampling sequential() {
+        return SequentialSampling.INSTANCE;
+    }
 }
