@@ -214,7 +214,7 @@ public final class Minimizer {
         StepSchedule steps = schedule != null ? schedule : defaultSchedule(objective, h0, stepsPerEpoch, calibrationRng);
         BatchSource source = sampling.start(SamplingContext.of(n, strata, objective::sampleSmoothness), samplingRng);
         Updater updater = rule.start(objective, h0, stepsPerEpoch);
-        RunInfo info = new RunInfo(n, objective.dimension(), batchSize, sampling.withReplacement(),
+        RunInfo info = new RunInfo(n, objective.dimension(), batchSize, sampling.independentDraws(),
                 lossName(objective), penalty.name(), rule.name(), steps.name(), sampling.name(), planned, seed);
         long timeNanos = timeLimit == null ? -1 : timeLimit.toNanos();
         FitLoop.Settings settings = new FitLoop.Settings(updater, source, sampling, steps, averaging, batchSize,
@@ -250,7 +250,7 @@ public final class Minimizer {
             return StepSchedule.constant(rule.defaultStepSize(lMax));
         }
         int trial = Math.min(objective.size(), CALIBRATION_SAMPLES);
-        double eps0 = StepCalibration.calibrate(objective, h0, trial, batchSize, rng).stepSize();
+        double eps0 = StepCalibration.of(batchSize).withTrialSamples(trial).calibrate(objective, h0, rng).stepSize();
         return StepSchedule.polynomial(eps0, stepsPerEpoch, 0.75);
     }
 

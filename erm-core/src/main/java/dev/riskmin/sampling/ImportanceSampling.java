@@ -52,6 +52,11 @@ public final class ImportanceSampling implements Sampling {
      *                                  infinite, NaN or negative (unknown smoothness reads as +∞)
      */
     @Override
+    public boolean independentDraws() {
+        return true;
+    }
+
+    @Override
     public BatchSource start(SamplingContext context, RandomGenerator rng) {
         Arguments.notNull("context", context);
         Arguments.notNull("rng", rng);

@@ -22,6 +22,14 @@ public interface Sampling {
     default void checkBatchSize(int batchSize, int n) {
     }
 
+    /**
+     * @return whether draws are independent and identically distributed (with replacement or by
+     * importance), so that the variance of a batch mean carries no finite-population correction
+     */
+    default boolean independentDraws() {
+        return false;
+    }
+
     /** @return whether this sampling needs strata in its context */
     default boolean needsStrata() {
         return false;

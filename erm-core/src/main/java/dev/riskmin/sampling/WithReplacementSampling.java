@@ -16,6 +16,11 @@ public final class WithReplacementSampling implements Sampling {
     }
 
     @Override
+    public boolean independentDraws() {
+        return true;
+    }
+
+    @Override
     public BatchSource start(SamplingContext context, RandomGenerator rng) {
         Arguments.notNull("context", context);
         Arguments.notNull("rng", rng);

@@ -154,7 +154,7 @@ class UpdateRuleIdentitiesTest {
         Updater u = UpdateRule.svrg(1000).start(objective, h, 40);
         double[] g = new double[4];
         // First step: snapshot at h, so the step moves along G(h) exactly.
-        u.gradient(h, new int[] {(int) (seed % 40)}, null, 1, g);
+        u.gradient(h, new int[] {Math.floorMod(seed, 40)}, null, 1, g);
         double[] full = new double[4];
         objective.gradient(h, full);
         double[] moved = h.clone();
@@ -192,7 +192,7 @@ class UpdateRuleIdentitiesTest {
             u.gradient(h, new int[] {i}, null, 1, g); // refresh every entry at the same h, without moving
         }
         // Now every table entry holds the gradient at h: the direction for any sample is the full gradient.
-        u.gradient(h, new int[] {(int) (seed % 25)}, null, 1, g);
+        u.gradient(h, new int[] {Math.floorMod(seed, 25)}, null, 1, g);
         double[] moved = h.clone();
         u.update(moved, g, 1.0);
         double[] full = new double[4];
