@@ -163,7 +163,7 @@ abstract class LossContract {
             double h = 1e-6 * Math.max(1.0, Math.abs(z));
             double d = loss.derivative(z, y);
             double fd = centralDifference(loss, z, y, h);
-            double tol = 1e-6 * (1.0 + Math.abs(d)) + 1e-9 * Math.abs(loss.value(z, y));
+            double tol = 1e-8 * (1.0 + Math.abs(d)) + 1e-9 * Math.abs(loss.value(z, y));
             assertEquals(fd, d, tol, () -> loss + " at z = " + z + ", y = " + y);
         }
     }

@@ -55,7 +55,7 @@ class PinballLossTest extends LossContract {
 
     @Test
     void sumOverASampleIsMinimalOnTheTauQuantile() {
-        // Koenker & Bassett (1978), §1: the minimizers of Σ ℓ_τ(z, y_i) are the τ-quantiles of the sample.
+        // Koenker & Bassett (1978), §1 (section from memory): the minimizers of Σ ℓ_τ(z, y_i) are the τ-quantiles of the sample.
         // For y = 1..10 and τ = 0.9 the subgradient −0.9·#(y > z) + 0.1·#(y < z) vanishes on [9, 10].
         Loss loss = Losses.pinball(0.9);
         double at9 = sum(loss, 9.0);

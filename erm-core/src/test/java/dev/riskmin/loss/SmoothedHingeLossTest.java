@@ -79,7 +79,7 @@ class SmoothedHingeLossTest extends SmoothLossContract {
     @MethodSource("dev.riskmin.testing.Cases#seeds200")
     void liesWithinHalfGammaBelowTheHinge(long seed) {
         // Shalev-Shwartz & Zhang (2013): the smoothed hinge satisfies h − γ/2 ≤ ℓ_γ ≤ h for the hinge h
-        // (it is the Moreau-type smoothing of h; the bound is elementary from the three branches).
+        // (from memory; the bound is also elementary from the three branches).
         RandomGenerator rng = Cases.rng(seed);
         Loss loss = loss(rng);
         double gamma = gamma(loss);

@@ -77,7 +77,7 @@ abstract class PenaltyContract {
     @ParameterizedTest(name = "seed={0}")
     @MethodSource("dev.riskmin.testing.Cases#seeds200")
     void fullProximalMinimizesTheProximalObjective(long seed) {
-        // Definition: prox_{εR}(v) = argmin_u ½‖u − v‖² + ε R(u) (Parikh & Boyd 2014, §1.1); the
+        // Definition: prox_{εR}(v) = argmin_u ½‖u − v‖² + ε R(u) (Parikh & Boyd 2014, §1.1, from memory); the
         // objective is strongly convex, so any perturbation of the minimizer cannot lower it.
         RandomGenerator rng = Cases.rng(seed);
         Penalty r = penalty(rng);
