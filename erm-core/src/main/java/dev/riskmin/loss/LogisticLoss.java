@@ -47,8 +47,14 @@ public final class LogisticLoss implements Loss {
 
     @Override
     public double derivative(double z, double y) {
-        double y01 = y > 0 ? y : 0.0;
-        return sigmoid(z) - y01;
+        // −σ(−z) for y = 1 rather than σ(z) − 1, which keeps its relative accuracy where σ(z) is close to 1.
+        if (y == 1.0) {
+            return -sigmoid(-z);
+        }
+        if (y <= 0.0) {
+            return sigmoid(z);
+        }
+        return sigmoid(z) - y;
     }
 
     @Override
