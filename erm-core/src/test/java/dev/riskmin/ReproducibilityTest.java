@@ -25,7 +25,7 @@ class ReproducibilityTest {
                 Minimizer.builder().updateRule(UpdateRule.adam()).sampling(Sampling.withReplacement()).batchSize(5),
                 Minimizer.builder().updateRule(UpdateRule.saga()).penalty(Penalty.l1(1e-2)),
                 Minimizer.builder().updateRule(UpdateRule.svrg()).sampling(Sampling.importance()).batchSize(3),
-                Minimizer.builder().loss(Losses.squared()).averaging(Averaging.tail(0.5)).standardize(true));
+                Minimizer.builder().loss(Losses.huber(0.5)).averaging(Averaging.tail(0.5)).standardize(true));
     }
 
     @ParameterizedTest

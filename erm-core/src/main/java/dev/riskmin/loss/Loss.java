@@ -8,7 +8,7 @@ package dev.riskmin.loss;
  * class's documentation (table in METHODS §11 of the design notes).
  *
  * <p>Non-finite values: for finite z and y in the domain, {@link #value} and {@link #derivative}
- * are never NaN. They are +∞ only where the true value exceeds {@link Double#MAX_VALUE}.
+ * are never NaN. They are ±∞ only where the true value lies beyond ±{@link Double#MAX_VALUE}.
  */
 public interface Loss {
 
