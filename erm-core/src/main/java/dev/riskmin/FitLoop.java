@@ -49,6 +49,7 @@ final class FitLoop implements StepView, Probe, FitControl {
     }
 
     private final Objective objective;
+    private final Objective heldOut;
     private final Settings settings;
     private final int n;
     private final int p;
@@ -77,10 +78,12 @@ final class FitLoop implements StepView, Probe, FitControl {
     private StopReason haltReason;
     private String haltDetail = "";
     private boolean inListeners;
+    private double[] restored;
 
-    FitLoop(Objective objective, double[] h0, Settings settings, List<FitListener> listeners,
+    FitLoop(Objective objective, Objective heldOut, double[] h0, Settings settings, List<FitListener> listeners,
             CancellationToken token) {
         this.objective = objective;
+        this.heldOut = heldOut;
         this.settings = settings;
         this.n = objective.size();
         this.p = objective.dimension();
@@ -191,7 +194,9 @@ final class FitLoop implements StepView, Probe, FitControl {
         }
         double[] result = h.clone();
         boolean averaged = false;
-        if (reason != StopReason.DIVERGED && averager.count() > 0) {
+        if (restored != null && reason != StopReason.DIVERGED) {
+            result = restored;
+        } else if (reason != StopReason.DIVERGED && averager.count() > 0) {
             double[] mean = new double[p];
             averager.copyTo(mean);
             if (allFinite(mean)) {
@@ -447,6 +452,25 @@ final class FitLoop implements StepView, Probe, FitControl {
     }
 
     @Override
+    public boolean hasHeldOut() {
+        return heldOut != null;
+    }
+
+    @Override
+    public double heldOutLoss() {
+        if (heldOut == null) {
+            throw new IllegalStateException("this fit has no held-out data; pass it with FitOptions.builder().heldOut(...)");
+        }
+        int m = heldOut.size();
+        double sum = 0;
+        for (int i = 0; i < m; i++) {
+            sum += heldOut.sampleLoss(h, i);
+        }
+        probeEvaluations += m;
+        return sum / m;
+    }
+
+    @Override
     public long evaluations() {
         return probeEvaluations;
     }
@@ -487,6 +511,22 @@ final class FitLoop implements StepView, Probe, FitControl {
             allowed = n;
         }
         batchSize = allowed;
+    }
+
+    @Override
+    public void restoreParameters(double[] parameters) {
+        if (parameters.length != p) {
+            throw new IllegalArgumentException("restored parameters have " + parameters.length + " entries, expected " + p);
+        }
+        for (int j = 0; j < p; j++) {
+            if (!Double.isFinite(parameters[j])) {
+                throw new IllegalArgumentException("restored parameters[" + j + "] is " + parameters[j]);
+            }
+        }
+        if (restored == null) {
+            restored = new double[p];
+        }
+        System.arraycopy(parameters, 0, restored, 0, p);
     }
 
     @Override

@@ -1,5 +1,6 @@
 package dev.riskmin;
 
+import dev.riskmin.data.Dataset;
 import dev.riskmin.hook.FitListener;
 
 import java.util.ArrayList;
@@ -10,16 +11,19 @@ import java.util.List;
  * cancellation token and starting parameters. Immutable; build with {@link #builder()}.
  */
 public final class FitOptions {
-    private static final FitOptions NONE = new FitOptions(List.of(), null, null);
+    private static final FitOptions NONE = new FitOptions(List.of(), null, null, null);
 
     private final List<FitListener> listeners;
     private final CancellationToken cancellation;
     private final double[] initialParameters;
+    private final Dataset heldOut;
 
-    private FitOptions(List<FitListener> listeners, CancellationToken cancellation, double[] initialParameters) {
+    private FitOptions(List<FitListener> listeners, CancellationToken cancellation, double[] initialParameters,
+                       Dataset heldOut) {
         this.listeners = listeners;
         this.cancellation = cancellation;
         this.initialParameters = initialParameters;
+        this.heldOut = heldOut;
     }
 
     /** No listeners, no token, start from zero. */
@@ -54,11 +58,17 @@ public final class FitOptions {
         return initialParameters == null ? null : initialParameters.clone();
     }
 
+    /** @return the held-out data, or null */
+    public Dataset heldOut() {
+        return heldOut;
+    }
+
     /** Collects options; {@link #build()} returns a new immutable object. */
     public static final class Builder {
         private final List<FitListener> listeners = new ArrayList<>();
         private CancellationToken cancellation;
         private double[] initialParameters;
+        private Dataset heldOut;
 
         private Builder() {
         }
@@ -95,8 +105,21 @@ public final class FitOptions {
             return this;
         }
 
+        /**
+         * Data kept out of the fit, on which listeners may measure the loss through
+         * {@link dev.riskmin.hook.Probe#heldOutLoss()} (standardized like the training data when the
+         * minimizer standardizes). Ignored by fits of a general objective.
+         */
+        public Builder heldOut(Dataset data) {
+            if (data == null) {
+                throw new NullPointerException("held-out data must not be null");
+            }
+            this.heldOut = data;
+            return this;
+        }
+
         public FitOptions build() {
-            return new FitOptions(List.copyOf(listeners), cancellation, initialParameters);
+            return new FitOptions(List.copyOf(listeners), cancellation, initialParameters, heldOut);
         }
     }
 }

@@ -119,9 +119,25 @@ public final class Minimizer {
         Standardizer standardizer = standardize ? Standardizer.fit(data) : null;
         Dataset fitted = standardizer != null ? standardizer.apply(data) : data;
         Objective objective;
+        Objective heldOut = null;
+        Dataset heldOutData = options.heldOut();
+        if (heldOutData != null) {
+            if (heldOutData.dimension() != data.dimension()) {
+                throw new IllegalArgumentException("held-out data have " + heldOutData.dimension()
+                        + " features, the training data " + data.dimension());
+            }
+            heldOutData = standardizer != null ? standardizer.apply(heldOutData) : heldOutData;
+        }
         int blocks;
         if (multiclassLoss != null) {
             objective = MulticlassObjective.of(fitted, multiclassLoss, penalty, intercept);
+            if (heldOutData != null) {
+                if (heldOutData.classes() != fitted.classes()) {
+                    throw new IllegalArgumentException("held-out data have " + heldOutData.classes()
+                            + " classes, the training data " + fitted.classes());
+                }
+                heldOut = MulticlassObjective.of(heldOutData, multiclassLoss, penalty, intercept);
+            }
             blocks = fitted.classes();
         } else {
             if (data.targetKind() == TargetKind.CLASSES && data.classes() > 2) {
@@ -129,6 +145,9 @@ public final class Minimizer {
                         + loss.name() + " is single-output; configure a multiclass loss");
             }
             objective = LinearObjective.of(fitted, loss, penalty, intercept);
+            if (heldOutData != null) {
+                heldOut = LinearObjective.of(heldOutData, loss, penalty, intercept);
+            }
             blocks = 1;
         }
         double[] h0 = options.initialParameters();
@@ -141,7 +160,7 @@ public final class Minimizer {
             }
         }
         int[] strata = sampling.needsStrata() ? strataOf(fitted) : null;
-        FitLoop.Outcome out = run(objective, h0, strata, options);
+        FitLoop.Outcome out = run(objective, heldOut, h0, strata, options);
         double[] params = out.parameters();
         double[] last = out.lastIterate();
         if (standardizer != null) {
@@ -186,7 +205,7 @@ public final class Minimizer {
             throw new IllegalArgumentException("sampling " + sampling.name()
                     + " needs strata, which a general objective does not have; choose another sampling");
         }
-        FitLoop.Outcome out = run(objective, h0, null, options);
+        FitLoop.Outcome out = run(objective, null, h0, null, options);
         return finish(out, null, null, out.parameters(), out.lastIterate(), options);
     }
 
@@ -200,7 +219,8 @@ public final class Minimizer {
         return fit;
     }
 
-    private FitLoop.Outcome run(Objective objective, double[] h0, int[] strata, FitOptions options) {
+    private FitLoop.Outcome run(Objective objective, Objective heldOut, double[] h0, int[] strata,
+                                FitOptions options) {
         int n = objective.size();
         sampling.checkBatchSize(batchSize, n);
         RandomGenerator.SplittableGenerator master =
@@ -219,7 +239,7 @@ public final class Minimizer {
         long timeNanos = timeLimit == null ? -1 : timeLimit.toNanos();
         FitLoop.Settings settings = new FitLoop.Settings(updater, source, sampling, steps, averaging, batchSize,
                 maxSteps, maxDraws, maxEvaluations, timeNanos, explosionFactor, probeRng, info);
-        return new FitLoop(objective, h0, settings, options.listenerList(), options.cancellation()).run();
+        return new FitLoop(objective, heldOut, h0, settings, options.listenerList(), options.cancellation()).run();
     }
 
     private String lossName(Objective objective) {

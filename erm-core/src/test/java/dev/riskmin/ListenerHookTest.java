@@ -165,4 +165,56 @@ class ListenerHookTest {
         assertEquals(4, epochs[0]);
         assertTrue(finished[0] == fit);
     }
+
+    @Test
+    void restoredParametersReplaceTheFitsOwnAndHeldOutLossIsMeasuredOnTheHeldOutRows() {
+        LeastSquaresProblem other = LeastSquaresProblem.gaussian(4, 100, 4, 0.3);
+        double[] best = new double[5];
+        double[] bestLoss = {Double.POSITIVE_INFINITY};
+        double[] expected = {0};
+        FitListener keeper = new FitListener() {
+            @Override
+            public void epochEnded(StepView view, FitControl control) {
+                double loss = view.probe().heldOutLoss();
+                double[] h = new double[5];
+                view.copyParameters(h);
+                double direct = 0;
+                LinearObjective held = other.objective();
+                for (int i = 0; i < 100; i++) {
+                    direct += held.sampleLoss(h, i) / 100;
+                }
+                expected[0] = Math.max(expected[0], Math.abs(direct - loss));
+                if (loss < bestLoss[0]) {
+                    bestLoss[0] = loss;
+                    System.arraycopy(h, 0, best, 0, 5);
+                    control.restoreParameters(best);
+                }
+            }
+        };
+        Fit fit = Minimizer.builder().epochs(6).build()
+                .fit(PROBLEM.data, FitOptions.builder().listener(keeper).heldOut(other.data).build());
+        assertEquals(0.0, expected[0], 1e-15);
+        assertArrayEquals(best, fit.parameters(), 0.0);
+        assertTrue(fit.probeEvaluations() >= 600);
+    }
+
+    @Test
+    void heldOutLossWithoutHeldOutDataIsAnIllegalState() {
+        String[] message = {null};
+        FitListener asker = new FitListener() {
+            @Override
+            public void step(StepView view, FitControl control) {
+                if (!view.probe().hasHeldOut()) {
+                    try {
+                        view.probe().heldOutLoss();
+                    } catch (IllegalStateException e) {
+                        message[0] = e.getMessage();
+                    }
+                    control.halt(StopReason.HALTED, "done");
+                }
+            }
+        };
+        Minimizer.builder().build().fit(PROBLEM.data, FitOptions.listeners(asker));
+        assertTrue(message[0] != null && message[0].contains("heldOut"), message[0]);
+    }
 }

@@ -30,6 +30,15 @@ public interface FitControl {
      */
     void requestBatchSize(int size);
 
+    /**
+     * Makes the fit return these parameters (copied now) instead of its own when it ends — for
+     * example the best parameters on held-out data, together with a {@link #halt}. They are in the
+     * layout and scale of {@link StepView#copyParameters}, must be finite, and replace averaging.
+     *
+     * @throws IllegalArgumentException if the length is not p or an entry is not finite
+     */
+    void restoreParameters(double[] parameters);
+
     /** @return the product of all step-size factors asked for so far */
     double stepSizeFactor();
 }

@@ -38,6 +38,16 @@ public interface Probe {
      */
     double independentBatchGradient(int size, double[] into);
 
+    /** @return whether the fit was given held-out data ({@link dev.riskmin.FitOptions.Builder#heldOut}) */
+    boolean hasHeldOut();
+
+    /**
+     * @return the mean weighted data loss (1/m) Σ ω<sub>i</sub> ℓ<sub>i</sub>(h<sub>t</sub>) over the m held-out
+     * samples, without the penalty (m loss evaluations)
+     * @throws IllegalStateException if the fit has no held-out data
+     */
+    double heldOutLoss();
+
     /** @return the probe's gradient evaluations so far in this fit */
     long evaluations();
 }
