@@ -1,0 +1,62 @@
+package dev.riskmin.diagnostics.verdict;
+
+import dev.riskmin.StopReason;
+
+/**
+ * The figures of a run from which a {@link HealthVerdict} is formed: filled by the diagnostics
+ * host as events arrive (or by hand, to judge a run recorded elsewhere). Not thread-safe.
+ * Every figure is NaN (or 0 for counts) until measured.
+ */
+public final class RunSummary {
+    /** Why the fit stopped; null while it runs. */
+    public StopReason stopReason;
+    /** The stop reason's detail. */
+    public String stopDetail = "";
+    /** Steps taken so far. */
+    public long steps;
+    /** Epochs (draws / n) so far. */
+    public double epochs;
+    /** n. */
+    public int sampleCount;
+    /** The batch size at the end. */
+    public int batchSize;
+    /** The step size at the last step. */
+    public double stepSize = Double.NaN;
+    /** Whether batches were drawn with replacement (i.i.d.). */
+    public boolean independentDraws;
+
+    /** The objective at the start (estimate), and the latest full objective measured. */
+    public double initialObjective = Double.NaN;
+    public double latestObjective = Double.NaN;
+    /** The best full objective measured, and the one measured before the latest (for the trend). */
+    public double bestObjective = Double.NaN;
+    public double previousObjective = Double.NaN;
+    /** Relative decrease of the objective over the last measurement window: (previous − latest)/|previous|. */
+    public double recentRelativeDecrease = Double.NaN;
+    /** The latest full-gradient norm and the one at the start. */
+    public double gradientNorm = Double.NaN;
+    public double initialGradientNorm = Double.NaN;
+
+    /** The latest smoothed noise figures: tr Σ, ‖G‖², B_simple, and the variance of the batch mean. */
+    public double traceCovariance = Double.NaN;
+    public double gradientNormSquared = Double.NaN;
+    public double noiseScale = Double.NaN;
+    public double batchMeanVariance = Double.NaN;
+
+    /** Descent-angle figures: the running mean cosine and the share of descent directions. */
+    public double meanCosine = Double.NaN;
+    public double descentShare = Double.NaN;
+    /** The number of angle probes behind those figures. */
+    public long angleProbes;
+
+    /** The share of steps whose batch loss rose above the previous smoothed loss by more than its noise, if tracked. */
+    public double ascentShare = Double.NaN;
+    /** The coefficient of variation of recent batch losses (standard deviation over mean), if tracked. */
+    public double lossOscillation = Double.NaN;
+
+    /** The number of step-size cuts and batch-size increases the stopping tests asked for. */
+    public int stepCuts;
+    public int batchIncreases;
+    /** The name of the stopping test that stopped the run, if one did. */
+    public String stoppedBy;
+}
