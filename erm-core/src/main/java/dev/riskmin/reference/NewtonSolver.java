@@ -41,9 +41,11 @@ import java.util.Arrays;
  * IRLS for these canonical links (McCullagh &amp; Nelder, <i>Generalized Linear Models</i>, 2nd ed.,
  * 1989, §2.5 and ch. 4–6; sections from memory; METHODS §12).
  *
- * <p>Stopping: when ‖∇L‖<sub>2</sub> ≤ tolerance · max(1, ‖∇L(h<sub>0</sub>)‖<sub>2</sub>), or when a full
- * accepted step no longer changes h beyond rounding (then the reported gradient norm is the floor
- * that double precision allows). A solve that stops otherwise throws.
+ * <p>Stopping: when ‖∇L‖<sub>2</sub> ≤ tolerance · max(1, ‖∇L(h<sub>0</sub>)‖<sub>2</sub>), after one more
+ * full Newton step that is kept only if it lowers the gradient norm (by quadratic convergence it
+ * takes h close to full precision for the price of one iteration); or when a full accepted step no
+ * longer changes h beyond rounding (then the reported gradient norm is the floor that double
+ * precision allows). A solve that stops otherwise throws.
  *
  * <p>No finite optimum exists, and the solver refuses with an {@link IllegalStateException} saying
  * why and what to do, when: without L2, an iterate classifies every 0/1 (or class-) labelled sample
@@ -299,10 +301,7 @@ public final class NewtonSolver {
             double[] delta = new double[p];
             double[] trial = new double[p];
             double[] normHistory = new double[maxIterations + 1];
-            LinearSolverDense<DMatrixRMaj> cholesky = LinearSolverFactory_DDRM.chol(p);
-            DMatrixRMaj a = new DMatrixRMaj(p, p);
-            DMatrixRMaj rhs = new DMatrixRMaj(p, 1);
-            DMatrixRMaj step = new DMatrixRMaj(p, 1);
+            NewtonSystem system = new NewtonSystem();
 
             double f = evaluate(h, g, hess);
             double scale = Math.max(1.0, norm(g));
@@ -311,25 +310,17 @@ public final class NewtonSolver {
                 refuseSeparation(iteration, h);
                 double gradientNorm = norm(g);
                 if (gradientNorm <= tolerance * scale) {
-                    return finish(h, f, gradientNorm, iteration);
+                    return polish(h, f, g, hess, gradientNorm, iteration, system, delta, trial);
                 }
                 if (iteration == maxIterations) {
                     throw notConverged(iteration, gradientNorm, scale, normHistory);
                 }
-
-                System.arraycopy(hess, 0, a.data, 0, p * p);
-                addShiftProjector(a.data);
-                for (int j = 0; j < p; j++) {
-                    rhs.data[j] = -g[j];
-                }
-                if (!cholesky.setA(a)) {
+                if (!system.solve(hess, g, delta)) {
                     throw new IllegalStateException("the Hessian is not positive definite at iteration " + iteration
                             + " (max |h_j| = " + maxAbs(h) + "): constant or collinear features, or fitted values "
                             + "at the edge of their range (quasi-separation) leave the optimum undetermined; drop "
                             + "dependent features or add an L2 penalty (withL2)");
                 }
-                cholesky.solve(rhs, step);
-                System.arraycopy(step.data, 0, delta, 0, p);
                 double slope = dot(g, delta);
 
                 double t = 1.0;
@@ -364,12 +355,116 @@ public final class NewtonSolver {
             }
         }
 
+        /**
+         * Once the tolerance is met, one more full Newton step, kept only if it lowers the gradient
+         * norm without raising L beyond rounding: near the optimum the step roughly squares the
+         * relative error (quadratic convergence), so the default tolerance still returns h to
+         * nearly full precision for one extra iteration.
+         */
+        private NewtonSolution polish(double[] h, double f, double[] g, double[] hess, double gradientNorm,
+                                      int iteration, NewtonSystem system, double[] delta, double[] trial) {
+            if (gradientNorm == 0 || !system.solve(hess, g, delta)) {
+                return finish(h, f, gradientNorm, iteration);
+            }
+            refuseRecession(delta, h, iteration);
+            for (int j = 0; j < p; j++) {
+                trial[j] = h[j] + delta[j];
+            }
+            double[] trialGradient = new double[p];
+            double ft = evaluate(trial, trialGradient, null);
+            double trialNorm = norm(trialGradient);
+            if (!separated && ft <= f + 8 * EPSILON * Math.abs(f) && trialNorm <= gradientNorm) {
+                return finish(trial, ft, trialNorm, iteration + 1);
+            }
+            return finish(h, f, gradientNorm, iteration);
+        }
+
         private void refuseSeparation(int iteration, double[] h) {
             if (separated) {
                 throw new IllegalStateException("the classes are linearly separable: the iterate at iteration "
                         + iteration + " classifies every sample correctly with a positive margin, so the "
                         + kind.label + " objective has no finite optimum without an L2 penalty (scaling that "
                         + "iterate up lowers it towards 0); add one (withL2)");
+            }
+        }
+
+        /**
+         * Quasi-separation lets the gradient vanish only as h runs off to infinity, so the gradient
+         * test alone can stop far out on such a ray. There Newton's step points along a recession
+         * direction v of L: one with (2y<sub>i</sub> − 1) v·x̃<sub>i</sub> ≥ 0 for every labelled sample
+         * and v·x̃<sub>i</sub> = 0 for proportions (logistic), (v<sub>y</sub> − v<sub>k</sub>)·x̃<sub>i</sub> ≥ 0
+         * (softmax), v·x̃<sub>i</sub> ≤ 0 with equality for positive counts (Poisson), and some
+         * inequality strict. Such a v exists exactly when no finite optimum does (Albert &amp; Anderson
+         * 1984 for the logistic case). At a genuine optimum the step is negligible, or it breaks some
+         * sign condition, since the data admit no such direction. Only for λ = 0: a penalty on the
+         * coefficients leaves only intercept rays, refused up front.
+         */
+        private void refuseRecession(double[] v, double[] h, int iteration) {
+            if (l2 > 0) {
+                return;
+            }
+            double vNorm = norm(v);
+            if (!(maxAbs(v) > 1e-8 * Math.max(1.0, maxAbs(h)))) {
+                return;
+            }
+            final double slack = 1e-6;
+            boolean strict = false;
+            for (int i = 0; i < n; i++) {
+                if (c[i] == 0) {
+                    continue;
+                }
+                System.arraycopy(x, i * d, xt, 0, d);
+                if (intercept) {
+                    xt[d] = 1.0;
+                }
+                double scale = vNorm * norm(xt);
+                for (int k = 0; k < blocks; k++) {
+                    double s = 0;
+                    for (int j = 0; j < stride; j++) {
+                        s += xt[j] * v[k * stride + j];
+                    }
+                    z[k] = s / scale;
+                }
+                double yi = y[i];
+                if (kind == Kind.LOGISTIC) {
+                    double y01 = Math.max(yi, 0.0);
+                    double margin = y01 == 1.0 ? z[0] : y01 == 0.0 ? -z[0] : -Math.abs(z[0]);
+                    if (margin < -slack) {
+                        return;
+                    }
+                    strict |= margin > slack;
+                } else if (kind == Kind.POISSON) {
+                    double margin = yi == 0 ? -z[0] : -Math.abs(z[0]);
+                    if (margin < -slack) {
+                        return;
+                    }
+                    strict |= margin > slack;
+                } else {
+                    int label = (int) yi;
+                    for (int k = 0; k < blocks; k++) {
+                        if (k != label) {
+                            double margin = z[label] - z[k];
+                            if (margin < -slack) {
+                                return;
+                            }
+                            strict |= margin > slack;
+                        }
+                    }
+                }
+            }
+            if (strict && kind == Kind.POISSON) {
+                throw new IllegalStateException("the zero counts are separated from the others: at iteration "
+                        + iteration + " (max |h_j| = " + maxAbs(h) + ") the Newton step points along a direction "
+                        + "that drives the predictions of some zero-count samples to 0 without changing any "
+                        + "other, so the Poisson objective has no finite optimum without an L2 penalty (its "
+                        + "gradient vanishes only at infinity); add one (withL2)");
+            }
+            if (strict) {
+                throw new IllegalStateException("the data are quasi-separated: at iteration " + iteration
+                        + " (max |h_j| = " + maxAbs(h) + ") the Newton step points along a direction in which no "
+                        + "sample's loss increases and some decrease for ever, so the " + kind.label
+                        + " objective has no finite optimum without an L2 penalty (its gradient vanishes only at "
+                        + "infinity); add one (withL2)");
             }
         }
 
@@ -385,6 +480,34 @@ public final class NewtonSolver {
             return new IllegalStateException("Newton's method did not converge in " + iteration
                     + " iterations: gradient norm " + gradientNorm + " > tolerance " + tolerance + " x " + scale
                     + "; raise maxIterations or loosen the tolerance");
+        }
+
+        /** The Newton system H Δ = −∇L, solved by Cholesky, with its buffers. */
+        private final class NewtonSystem {
+            private final LinearSolverDense<DMatrixRMaj> cholesky = LinearSolverFactory_DDRM.chol(p);
+            private final DMatrixRMaj a = new DMatrixRMaj(p, p);
+            private final DMatrixRMaj rhs = new DMatrixRMaj(p, 1);
+            private final DMatrixRMaj step = new DMatrixRMaj(p, 1);
+
+            /** @return false if H (plus the shift projector for softmax) is not positive definite */
+            boolean solve(double[] hess, double[] g, double[] delta) {
+                System.arraycopy(hess, 0, a.data, 0, p * p);
+                addShiftProjector(a.data);
+                for (int j = 0; j < p; j++) {
+                    rhs.data[j] = -g[j];
+                }
+                if (!cholesky.setA(a)) {
+                    return false;
+                }
+                cholesky.solve(rhs, step);
+                System.arraycopy(step.data, 0, delta, 0, p);
+                for (double v : delta) {
+                    if (!Double.isFinite(v)) {
+                        return false;
+                    }
+                }
+                return true;
+            }
         }
 
         /**
