@@ -11,9 +11,9 @@ import org.ejml.interfaces.decomposition.QRDecomposition;
 /**
  * Weighted least squares with an optional unpenalized intercept and an optional ridge penalty,
  * solved exactly by a Householder QR factorization:
- * <pre>
+ * <blockquote>
  *   minimize  (1/(2W)) Σ<sub>i</sub> w<sub>i</sub> (x<sub>i</sub>·β + b − y<sub>i</sub>)² + (λ/2)‖β‖²,   W = Σ<sub>i</sub> w<sub>i</sub>.
- * </pre>
+ * </blockquote>
  * This is the same problem as a {@code LinearObjective} with the squared loss and the penalty
  * {@code Penalty.l2(λ)}: its data term (1/n) Σ ω<sub>i</sub> (z<sub>i</sub> − y<sub>i</sub>)²/2 with
  * ω<sub>i</sub> = n w<sub>i</sub>/W equals the first term above, so the same λ means the same optimum

@@ -19,9 +19,9 @@ import java.util.Arrays;
  * Newton's method (iteratively reweighted least squares) for the logistic, Poisson (log link) and
  * softmax cross-entropy losses with an optional L2 penalty, on exactly the objective of
  * {@code LinearObjective} / {@code MulticlassObjective}:
- * <pre>
+ * <blockquote>
  *   L(h) = (1/n) Σ<sub>i</sub> ω<sub>i</sub> ℓ(z<sub>i</sub>, y<sub>i</sub>) + (λ/2) Σ<sub>k</sub> ‖w<sub>k</sub>‖²,   ω<sub>i</sub> = n w<sub>i</sub>/Σw,
- * </pre>
+ * </blockquote>
  * intercepts unpenalized, z<sub>i</sub> = w·x<sub>i</sub> + b (one block) or z<sub>ik</sub> = w<sub>k</sub>·x<sub>i</sub> + b<sub>k</sub>
  * (K blocks of stride d + 1, the layout of {@code MulticlassObjective}). With x̃ = (x, 1):
  * <ul>
@@ -37,7 +37,9 @@ import java.util.Arrays;
  * </ul>
  * plus λ on the diagonal of every penalized coordinate. Each iteration solves H Δ = −∇L by Cholesky
  * and halves the step from t = 1 until the Armijo condition L(h + tΔ) ≤ L(h) + 10<sup>−4</sup> t ∇L·Δ
- * holds (Armijo, Pacific J. Math. 16(1), 1966). Without step halving this is Fisher scoring =
+ * holds (Armijo, Pacific J. Math. 16(1), 1966), up to an allowance of 8ε times the summed
+ * magnitudes of L's terms for rounding in L (terms such as e<sup>z</sup> − yz cancel, so |L| itself
+ * can be far below its rounding error). Without step halving this is Fisher scoring =
  * IRLS for these canonical links (McCullagh &amp; Nelder, <i>Generalized Linear Models</i>, 2nd ed.,
  * 1989, §2.5 and ch. 4–6; sections from memory; METHODS §12).
  *
@@ -50,9 +52,12 @@ import java.util.Arrays;
  * <p>No finite optimum exists, and the solver refuses with an {@link IllegalStateException} saying
  * why and what to do, when: without L2, an iterate classifies every 0/1 (or class-) labelled sample
  * correctly with a positive margin (strict separation: scaling that iterate up drives L to its
- * infimum 0; Albert &amp; Anderson, Biometrika 71(1), 1984); with an (unpenalized) intercept, all
- * binary labels are equal, all counts are zero, or a class is absent; the iterations run out while
- * the parameters grow without bound (quasi-separation); or the Hessian is singular.
+ * infimum 0; Albert &amp; Anderson, Biometrika 71(1), 1984); without L2, the gradient test is met
+ * while the Newton step still points along a direction of recession of L (quasi-separation, where
+ * the gradient vanishes only at infinity; see {@code refuseRecession} in the source); with an
+ * (unpenalized) intercept, whatever λ, all binary labels are equal, all counts are zero, or a class
+ * is absent; the iterations run out while the parameters grow without bound; or the Hessian is
+ * singular.
  *
  * <p>The softmax parametrization is redundant (adding one vector to every block changes nothing):
  * the intercepts always, and the coefficients when λ = 0, are determined only up to such a shift.
@@ -187,6 +192,7 @@ public final class NewtonSolver {
         private final double[] z;
         private final double[] prob;
         private boolean separated;      // set by evaluate(): every sample correct with a positive margin
+        private double magnitude;       // set by evaluate(): Σ c_i |terms of ℓ_i|, the scale of L's rounding
         private final Loss logistic = Losses.logistic();
 
         Problem(Dataset data) {
@@ -304,30 +310,29 @@ public final class NewtonSolver {
             NewtonSystem system = new NewtonSystem();
 
             double f = evaluate(h, g, hess);
+            double fMagnitude = magnitude;
             double scale = Math.max(1.0, norm(g));
             for (int iteration = 0; ; iteration++) {
                 normHistory[iteration] = maxAbs(h);
                 refuseSeparation(iteration, h);
                 double gradientNorm = norm(g);
                 if (gradientNorm <= tolerance * scale) {
-                    return polish(h, f, g, hess, gradientNorm, iteration, system, delta, trial);
+                    return polish(h, f, fMagnitude, g, hess, gradientNorm, iteration, system, delta, trial);
                 }
                 if (iteration == maxIterations) {
                     throw notConverged(iteration, gradientNorm, scale, normHistory);
                 }
                 if (!system.solve(hess, g, delta)) {
-                    throw new IllegalStateException("the Hessian is not positive definite at iteration " + iteration
-                            + " (max |h_j| = " + maxAbs(h) + "): constant or collinear features, or fitted values "
-                            + "at the edge of their range (quasi-separation) leave the optimum undetermined; drop "
-                            + "dependent features or add an L2 penalty (withL2)");
+                    throw singularHessian(iteration, h);
                 }
                 double slope = dot(g, delta);
 
                 double t = 1.0;
                 boolean accepted = false;
                 // Rounding in L itself must not veto a step near the optimum, where L changes by less
-                // than its last bits; far from it the decreases dwarf this allowance.
-                double allowance = 8 * EPSILON * Math.abs(f);
+                // than its last bits; far from it the decreases dwarf this allowance. The bits are
+                // those of the summed term magnitudes, not of |L|, which cancellation can make tiny.
+                double allowance = 8 * EPSILON * fMagnitude;
                 for (int halving = 0; halving <= MAX_HALVINGS; halving++) {
                     for (int j = 0; j < p; j++) {
                         trial[j] = h[j] + t * delta[j];
@@ -347,6 +352,7 @@ public final class NewtonSolver {
                 double change = t * maxAbs(delta);
                 System.arraycopy(trial, 0, h, 0, p);
                 f = evaluate(h, g, hess);
+                fMagnitude = magnitude;
                 if (t == 1.0 && change <= 4 * EPSILON * Math.max(1.0, maxAbs(h))) {
                     // A full Newton step that moves h by rounding only: nothing more is attainable.
                     refuseSeparation(iteration + 1, h);
@@ -361,10 +367,16 @@ public final class NewtonSolver {
          * relative error (quadratic convergence), so the default tolerance still returns h to
          * nearly full precision for one extra iteration.
          */
-        private NewtonSolution polish(double[] h, double f, double[] g, double[] hess, double gradientNorm,
+        private NewtonSolution polish(double[] h, double f, double fMagnitude, double[] g, double[] hess,
+                                      double gradientNorm,
                                       int iteration, NewtonSystem system, double[] delta, double[] trial) {
-            if (gradientNorm == 0 || !system.solve(hess, g, delta)) {
+            if (gradientNorm == 0) {
                 return finish(h, f, gradientNorm, iteration);
+            }
+            if (!system.solve(hess, g, delta)) {
+                // A small gradient where the curvature vanishes in some direction: an undetermined
+                // optimum (dependent features) or one at infinity, not a solution to report.
+                throw singularHessian(iteration, h);
             }
             refuseRecession(delta, h, iteration);
             for (int j = 0; j < p; j++) {
@@ -373,10 +385,17 @@ public final class NewtonSolver {
             double[] trialGradient = new double[p];
             double ft = evaluate(trial, trialGradient, null);
             double trialNorm = norm(trialGradient);
-            if (!separated && ft <= f + 8 * EPSILON * Math.abs(f) && trialNorm <= gradientNorm) {
+            if (!separated && ft <= f + 8 * EPSILON * fMagnitude && trialNorm <= gradientNorm) {
                 return finish(trial, ft, trialNorm, iteration + 1);
             }
             return finish(h, f, gradientNorm, iteration);
+        }
+
+        private IllegalStateException singularHessian(int iteration, double[] h) {
+            return new IllegalStateException("the Hessian is not positive definite at iteration " + iteration
+                    + " (max |h_j| = " + maxAbs(h) + "): constant or collinear features, or fitted values at the "
+                    + "edge of their range (quasi-separation) leave the optimum undetermined; drop dependent "
+                    + "features or add an L2 penalty (withL2)");
         }
 
         private void refuseSeparation(int iteration, double[] h) {
@@ -394,8 +413,9 @@ public final class NewtonSolver {
          * direction v of L: one with (2y<sub>i</sub> − 1) v·x̃<sub>i</sub> ≥ 0 for every labelled sample
          * and v·x̃<sub>i</sub> = 0 for proportions (logistic), (v<sub>y</sub> − v<sub>k</sub>)·x̃<sub>i</sub> ≥ 0
          * (softmax), v·x̃<sub>i</sub> ≤ 0 with equality for positive counts (Poisson), and some
-         * inequality strict. Such a v exists exactly when no finite optimum does (Albert &amp; Anderson
-         * 1984 for the logistic case). At a genuine optimum the step is negligible, or it breaks some
+         * inequality strict. For a design of full column rank such a v exists exactly when no finite
+         * optimum does (Albert &amp; Anderson 1984 for the logistic case); the check allows a slack of
+         * 1e−6 in the normalized products v·x̃/(‖v‖‖x̃‖). At a genuine optimum the step is negligible, or it breaks some
          * sign condition, since the data admit no such direction. Only for λ = 0: a penalty on the
          * coefficients leaves only intercept rays, refused up front.
          */
@@ -550,6 +570,7 @@ public final class NewtonSolver {
             }
             boolean allCorrect = l2 == 0 && (kind == Kind.SOFTMAX || (kind == Kind.LOGISTIC && binaryLabels));
             double sum = 0;
+            double size = 0;
             for (int i = 0; i < n; i++) {
                 double ci = c[i];
                 if (ci == 0) {
@@ -571,7 +592,9 @@ public final class NewtonSolver {
                 switch (kind) {
                     case LOGISTIC: {
                         double zi = z[0];
-                        sum += ci * logistic.value(zi, yi);
+                        double value = ci * logistic.value(zi, yi);
+                        sum += value;
+                        size += value;
                         double y01 = Math.max(yi, 0.0);
                         if (allCorrect && !(y01 == 1.0 ? zi > 0 : zi < 0)) {
                             allCorrect = false;
@@ -589,6 +612,7 @@ public final class NewtonSolver {
                         double zi = z[0];
                         double mu = Math.exp(zi);
                         sum += ci * (mu - yi * zi);
+                        size += ci * (mu + Math.abs(yi * zi));
                         if (g != null) {
                             addScaled(ci * (mu - yi), g, 0);
                             if (hess != null) {
@@ -610,6 +634,7 @@ public final class NewtonSolver {
                             total += prob[k];
                         }
                         sum += ci * (max + Math.log(total) - z[label]);
+                        size += ci * (Math.abs(max) + Math.log(total) + Math.abs(z[label]));
                         if (allCorrect) {
                             for (int k = 0; k < blocks; k++) {
                                 if (k != label && !(z[label] > z[k])) {
@@ -641,12 +666,14 @@ public final class NewtonSolver {
                 }
             }
             separated = allCorrect;
+            magnitude = size;
             if (l2 > 0) {
                 for (int k = 0; k < blocks; k++) {
                     int base = k * stride;
                     for (int j = 0; j < d; j++) {
                         double v = h[base + j];
                         sum += 0.5 * l2 * v * v;
+                        magnitude += 0.5 * l2 * v * v;
                         if (g != null) {
                             g[base + j] += l2 * v;
                         }

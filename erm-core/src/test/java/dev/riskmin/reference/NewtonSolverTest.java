@@ -16,6 +16,11 @@ import org.apache.commons.math3.optim.InitialGuess;
 import org.apache.commons.math3.optim.MaxEval;
 import org.apache.commons.math3.optim.MaxIter;
 import org.apache.commons.math3.optim.PointValuePair;
+import org.apache.commons.math3.optim.linear.LinearConstraint;
+import org.apache.commons.math3.optim.linear.LinearConstraintSet;
+import org.apache.commons.math3.optim.linear.NonNegativeConstraint;
+import org.apache.commons.math3.optim.linear.Relationship;
+import org.apache.commons.math3.optim.linear.SimplexSolver;
 import org.apache.commons.math3.optim.nonlinear.scalar.GoalType;
 import org.apache.commons.math3.optim.nonlinear.scalar.ObjectiveFunction;
 import org.apache.commons.math3.optim.nonlinear.scalar.ObjectiveFunctionGradient;
@@ -24,6 +29,8 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.MethodSource;
 
+import java.util.ArrayList;
+import java.util.List;
 import java.util.random.RandomGenerator;
 
 import static dev.riskmin.reference.LeastSquaresTest.assertRelative;
@@ -398,6 +405,92 @@ class NewtonSolverTest {
         assertTrue(e.getMessage().contains("separated") && e.getMessage().contains("L2"), e.getMessage());
         NewtonSolution fit = NewtonSolver.poisson().withL2(0.1).solve(Dataset.of(u, counts));
         assertStationary(LinearObjective.of(Dataset.of(u, counts), POISSON, Penalty.l2(0.1), true), fit.parameters(), fit);
+    }
+
+    /**
+     * Whether a direction of recession exists: v ≠ 0 with s_i v·x̃_i ≥ 0 for all i and some > 0, found
+     * as max Σ s_i v·x̃_i over |v_j| ≤ 1 by commons-math3 3.6.1 SimplexSolver. For the logistic loss
+     * s_i = 2y_i − 1 (Albert &amp; Anderson 1984: no finite maximum-likelihood estimate exactly when such
+     * a v exists); for Poisson, v·x̃_i ≤ 0 on zero counts and = 0 on positive counts (derived the same way).
+     */
+    private static boolean recessionDirectionExists(double[][] x, double[] y, boolean poisson) {
+        int n = x.length;
+        int p = x[0].length + 1;
+        List<LinearConstraint> constraints = new ArrayList<>();
+        double[] objective = new double[p];
+        for (int i = 0; i < n; i++) {
+            double s = poisson ? -1 : 2 * y[i] - 1;
+            double[] a = new double[p];
+            for (int j = 0; j < p - 1; j++) {
+                a[j] = s * x[i][j];
+            }
+            a[p - 1] = s;
+            if (poisson && y[i] > 0) {
+                constraints.add(new LinearConstraint(a, Relationship.EQ, 0));
+                continue;
+            }
+            constraints.add(new LinearConstraint(a, Relationship.GEQ, 0));
+            for (int j = 0; j < p; j++) {
+                objective[j] += a[j];
+            }
+        }
+        for (int j = 0; j < p; j++) {
+            double[] e = new double[p];
+            e[j] = 1;
+            constraints.add(new LinearConstraint(e, Relationship.LEQ, 1));
+            constraints.add(new LinearConstraint(e, Relationship.GEQ, -1));
+        }
+        PointValuePair best = new SimplexSolver().optimize(new MaxIter(10_000),
+                new org.apache.commons.math3.optim.linear.LinearObjectiveFunction(objective, 0),
+                new LinearConstraintSet(constraints), GoalType.MAXIMIZE, new NonNegativeConstraint(false));
+        return best.getValue() > 1e-7;
+    }
+
+    @ParameterizedTest(name = "seed={0}")
+    @MethodSource("dev.riskmin.testing.Cases#seeds200")
+    void refusalsCoincideWithExistenceOfARecessionDirection(long seed) {
+        // Small problems, often (quasi-)separated: the solver must refuse exactly those the linear
+        // program shows to have no finite optimum, and solve every other one.
+        RandomGenerator rng = Cases.rng(seed);
+        boolean poisson = rng.nextInt(3) == 0;
+        int n = 8 + rng.nextInt(30);
+        int d = 1 + rng.nextInt(3);
+        double[][] x = new double[n][d];
+        double[] y = new double[n];
+        boolean discreteFirst = rng.nextBoolean();
+        double strength = 4 * rng.nextDouble();
+        for (int i = 0; i < n; i++) {
+            double z = poisson ? -2 * rng.nextDouble() : 0.0;
+            for (int j = 0; j < d; j++) {
+                // A discrete first column makes (quasi-)separation common (three levels for the logistic
+                // loss; two for Poisson, where a level with only zero counts is what separates); the
+                // other columns keep the design of full rank.
+                boolean discrete = j == 0 && discreteFirst;
+                x[i][j] = discrete ? (poisson ? rng.nextInt(2) : rng.nextInt(3) - 1) : rng.nextGaussian();
+                z += (poisson && discrete ? -2 * strength : strength) * x[i][j] / (j + 1);
+            }
+            y[i] = poisson ? poissonDraw(rng, Math.exp(z)) : (rng.nextDouble() < 1 / (1 + Math.exp(-z)) ? 1 : 0);
+        }
+        if (discreteFirst) {
+            x[0][0] = 0;   // never a constant column
+            x[1][0] = 1;
+        }
+        if (!poisson) {
+            y[0] = 0;   // both classes present, so the intercept alone cannot run off
+            y[1] = 1;
+        } else {
+            y[0] = Math.max(y[0], 1);
+        }
+        boolean noOptimum = recessionDirectionExists(x, y, poisson);
+        NewtonSolver solver = poisson ? NewtonSolver.poisson() : NewtonSolver.logistic();
+        Dataset data = Dataset.of(x, y);
+        if (noOptimum) {
+            IllegalStateException e = assertThrows(IllegalStateException.class, () -> solver.solve(data));
+            assertTrue(e.getMessage().contains("separa") && e.getMessage().contains("L2"), e.getMessage());
+        } else {
+            NewtonSolution fit = solver.solve(data);
+            assertTrue(fit.gradientNorm() <= 1e-9, fit.toString());
+        }
     }
 
     @Test
