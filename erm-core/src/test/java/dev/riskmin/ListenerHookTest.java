@@ -193,7 +193,7 @@ class ListenerHookTest {
         };
         Fit fit = Minimizer.builder().epochs(6).build()
                 .fit(PROBLEM.data, FitOptions.builder().listener(keeper).heldOut(other.data).build());
-        assertEquals(0.0, expected[0], 1e-15);
+        assertEquals(0.0, expected[0], 1e-12);
         assertArrayEquals(best, fit.parameters(), 0.0);
         assertTrue(fit.probeEvaluations() >= 600);
     }

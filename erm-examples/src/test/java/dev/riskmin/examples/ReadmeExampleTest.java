@@ -54,13 +54,13 @@ class ReadmeExampleTest {
         List<String> code = new ArrayList<>();
         boolean inside = false;
         for (String line : Files.readAllLines(here, StandardCharsets.UTF_8)) {
-            if (line.contains("README-END")) {
+            if (line.strip().equals("// " + "README-END")) {
                 inside = false;
             }
             if (inside) {
                 code.add(line.strip());
             }
-            if (line.contains("README-BEGIN")) {
+            if (line.strip().equals("// " + "README-BEGIN")) {
                 inside = true;
             }
         }
