@@ -40,33 +40,8 @@ public final class Dataset {
         this.targetKind = b.targetKind;
         this.classes = b.classes;
         if (b.weights != null) {
-            if (b.weights.length != n) {
-                throw new IllegalArgumentException("weights have " + b.weights.length + " entries, but features have "
-                        + n + " rows");
-            }
-            double max = 0;
-            for (int i = 0; i < n; i++) {
-                double w = b.weights[i];
-                if (!Double.isFinite(w) || w < 0) {
-                    throw new IllegalArgumentException("weights[" + i + "] (" + w + ") must be finite and >= 0");
-                }
-                max = Math.max(max, w);
-            }
-            if (!(max > 0)) {
-                throw new IllegalArgumentException("weights are all zero (" + n + " rows): nothing to fit");
-            }
-            // Dividing by the largest weight first keeps the sum in [1, n] and n / sum in [1, n], so
-            // neither huge weights (sum overflows) nor subnormal ones (n / sum overflows) break ω.
-            double sum = 0;
-            for (int i = 0; i < n; i++) {
-                sum += b.weights[i] / max;
-            }
+            this.normalizedWeights = SampleWeights.normalize(b.weights, n);
             this.weights = b.weights;
-            this.normalizedWeights = new double[n];
-            double scale = n / sum;
-            for (int i = 0; i < n; i++) {
-                normalizedWeights[i] = (b.weights[i] / max) * scale;
-            }
         } else {
             this.weights = null;
             this.normalizedWeights = null;

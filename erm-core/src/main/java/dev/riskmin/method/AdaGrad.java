@@ -49,10 +49,7 @@ final class AdaGrad implements UpdateRule {
             this.objective = objective;
             this.sumSquares = new double[p];
             this.proximal = !objective.penalty().smooth();
-            this.penalized = new boolean[p];
-            for (int j = 0; j < p; j++) {
-                penalized[j] = objective.penalized(j);
-            }
+            this.penalized = Moves.penalizedMask(objective);
         }
 
         @Override

@@ -61,10 +61,7 @@ final class Adam implements UpdateRule {
             this.m = new double[p];
             this.v = new double[p];
             this.proximal = !objective.penalty().smooth();
-            this.penalized = new boolean[p];
-            for (int j = 0; j < p; j++) {
-                penalized[j] = objective.penalized(j);
-            }
+            this.penalized = Moves.penalizedMask(objective);
         }
 
         @Override

@@ -44,10 +44,7 @@ final class PlainSgd implements UpdateRule {
 
         @Override
         public void update(double[] h, double[] gradient, double stepSize) {
-            for (int j = 0; j < h.length; j++) {
-                h[j] -= stepSize * gradient[j];
-            }
-            objective.proximalStep(h, stepSize);
+            Moves.proximalDescent(h, gradient, stepSize, objective);
         }
 
         @Override

@@ -121,10 +121,7 @@ final class Saga implements UpdateRule {
 
         @Override
         public void update(double[] h, double[] gradient, double stepSize) {
-            for (int j = 0; j < h.length; j++) {
-                h[j] -= stepSize * direction[j];
-            }
-            objective.proximalStep(h, stepSize);
+            Moves.proximalDescent(h, direction, stepSize, objective);
         }
 
         @Override
@@ -193,10 +190,7 @@ final class Saga implements UpdateRule {
 
         @Override
         public void update(double[] h, double[] gradient, double stepSize) {
-            for (int j = 0; j < h.length; j++) {
-                h[j] -= stepSize * direction[j];
-            }
-            objective.proximalStep(h, stepSize);
+            Moves.proximalDescent(h, direction, stepSize, objective);
         }
 
         @Override

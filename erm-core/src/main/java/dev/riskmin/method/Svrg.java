@@ -78,10 +78,7 @@ final class Svrg implements UpdateRule {
 
         @Override
         public void update(double[] h, double[] gradient, double stepSize) {
-            for (int j = 0; j < h.length; j++) {
-                h[j] -= stepSize * direction[j];
-            }
-            objective.proximalStep(h, stepSize);
+            Moves.proximalDescent(h, direction, stepSize, objective);
         }
 
         @Override

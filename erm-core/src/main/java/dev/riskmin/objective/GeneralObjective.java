@@ -1,5 +1,6 @@
 package dev.riskmin.objective;
 
+import dev.riskmin.data.SampleWeights;
 import dev.riskmin.penalty.Penalty;
 
 import java.util.Arrays;
@@ -8,14 +9,14 @@ import java.util.Arrays;
  * L(h) = (1/n) Σ<sub>i</sub> ω<sub>i</sub> ℓ<sub>i</sub>(h) + R(h) for a user-supplied {@link SampleFunction}.
  * The penalty acts on the coordinates the function marks as penalized.
  */
-public final class GeneralObjective implements Objective {
+public final class GeneralObjective extends PenalizedObjective {
     private final SampleFunction f;
     private final double[] omega;
-    private final PenaltyLayout layout;
     private final int n;
     private final int p;
 
     private GeneralObjective(SampleFunction f, double[] weights, Penalty penalty) {
+        super(PenaltyLayout.ofMask(penalty, penalizedMask(f)));
         this.f = f;
         this.n = f.size();
         this.p = f.dimension();
@@ -26,32 +27,22 @@ public final class GeneralObjective implements Objective {
             throw new IllegalArgumentException("sample function dimension (" + p + ") must be >= 1");
         }
         if (weights != null) {
-            if (weights.length != n) {
-                throw new IllegalArgumentException("weights have " + weights.length + " entries, but the function has "
-                        + n + " samples");
-            }
-            double sum = 0;
-            for (int i = 0; i < n; i++) {
-                if (!Double.isFinite(weights[i]) || weights[i] < 0) {
-                    throw new IllegalArgumentException("weights[" + i + "] (" + weights[i] + ") must be finite and >= 0");
-                }
-                sum += weights[i];
-            }
-            if (!(sum > 0) || Double.isInfinite(sum)) {
-                throw new IllegalArgumentException("weights sum to " + sum + "; expected a finite positive sum");
-            }
-            omega = new double[n];
-            for (int i = 0; i < n; i++) {
-                omega[i] = weights[i] * (n / sum);
-            }
+            omega = SampleWeights.normalize(weights, n);
         } else {
             omega = null;
+        }
+    }
+
+    private static boolean[] penalizedMask(SampleFunction f) {
+        int p = f.dimension();
+        if (p < 1) {
+            throw new IllegalArgumentException("sample function dimension (" + p + ") must be >= 1");
         }
         boolean[] mask = new boolean[p];
         for (int j = 0; j < p; j++) {
             mask[j] = f.penalized(j);
         }
-        this.layout = PenaltyLayout.ofMask(penalty, mask);
+        return mask;
     }
 
     /** Unweighted: every ω<sub>i</sub> = 1. */
@@ -127,36 +118,6 @@ public final class GeneralObjective implements Objective {
         }
         layout.addGradient(h, 1.0, g);
         return sum * inv + layout.value(h);
-    }
-
-    @Override
-    public Penalty penalty() {
-        return layout.penalty();
-    }
-
-    @Override
-    public double penaltyValue(double[] h) {
-        return layout.value(h);
-    }
-
-    @Override
-    public void addPenaltyGradient(double[] h, double scale, double[] g) {
-        layout.addGradient(h, scale, g);
-    }
-
-    @Override
-    public void proximalStep(double[] h, double step) {
-        layout.proximalStep(h, step);
-    }
-
-    @Override
-    public void fullProximalStep(double[] h, double step) {
-        layout.fullProximalStep(h, step);
-    }
-
-    @Override
-    public boolean penalized(int j) {
-        return layout.penalized(j);
     }
 
     @Override

@@ -15,19 +15,19 @@ import dev.riskmin.penalty.Penalty;
  *
  * <p>Every target is checked against the loss's domain at construction.
  */
-public final class LinearObjective implements Objective, LinearStructure {
+public final class LinearObjective extends PenalizedObjective implements LinearStructure {
     private final FeatureMatrix x;
     private final DenseFeatures dense;   // non-null on the dense path
     private final SparseFeatures sparse; // non-null on the sparse path
     private final double[] y;
     private final double[] omega; // null: all ones
     private final Loss loss;
-    private final PenaltyLayout layout;
     private final int n;
     private final int d;
     private final boolean intercept;
 
     private LinearObjective(Dataset data, Loss loss, Penalty penalty, boolean intercept) {
+        super(PenaltyLayout.blocks(penalty, 1, data.dimension(), intercept));
         this.x = data.features();
         this.dense = x instanceof DenseFeatures ? (DenseFeatures) x : null;
         this.sparse = x instanceof SparseFeatures ? (SparseFeatures) x : null;
@@ -37,7 +37,6 @@ public final class LinearObjective implements Objective, LinearStructure {
         this.n = data.size();
         this.d = data.dimension();
         this.intercept = intercept;
-        this.layout = PenaltyLayout.blocks(penalty, 1, d, intercept);
         for (int i = 0; i < n; i++) {
             loss.requireTarget(y[i], i);
         }
@@ -162,36 +161,6 @@ public final class LinearObjective implements Objective, LinearStructure {
         }
         layout.addGradient(h, 1.0, g);
         return sum * inv + layout.value(h);
-    }
-
-    @Override
-    public Penalty penalty() {
-        return layout.penalty();
-    }
-
-    @Override
-    public double penaltyValue(double[] h) {
-        return layout.value(h);
-    }
-
-    @Override
-    public void addPenaltyGradient(double[] h, double scale, double[] g) {
-        layout.addGradient(h, scale, g);
-    }
-
-    @Override
-    public void proximalStep(double[] h, double step) {
-        layout.proximalStep(h, step);
-    }
-
-    @Override
-    public void fullProximalStep(double[] h, double step) {
-        layout.fullProximalStep(h, step);
-    }
-
-    @Override
-    public boolean penalized(int j) {
-        return layout.penalized(j);
     }
 
     @Override

@@ -14,12 +14,11 @@ import java.util.Arrays;
  * w<sub>k</sub> at h[k·s .. k·s + d) and b<sub>k</sub> at h[k·s + d] with stride s = d + 1 (s = d without
  * intercepts). By the chain rule the gradient of block k is ω<sub>i</sub> (∂ℓ/∂z<sub>k</sub>) (x<sub>i</sub>, 1).
  */
-public final class MulticlassObjective implements Objective {
+public final class MulticlassObjective extends PenalizedObjective {
     private final FeatureMatrix x;
     private final double[] y;
     private final double[] omega;
     private final MulticlassLoss loss;
-    private final PenaltyLayout layout;
     private final int n;
     private final int d;
     private final int classes;
@@ -29,10 +28,7 @@ public final class MulticlassObjective implements Objective {
     private final double[] dz;
 
     private MulticlassObjective(Dataset data, MulticlassLoss loss, Penalty penalty, boolean intercept) {
-        if (data.targetKind() != TargetKind.CLASSES) {
-            throw new IllegalArgumentException("the " + loss.name()
-                    + " loss needs class labels 0..K-1; build the dataset with labels(int[], K)");
-        }
+        super(PenaltyLayout.blocks(penalty, requireClasses(data, loss), data.dimension(), intercept));
         this.x = data.features();
         this.y = data.targetsView();
         this.omega = data.normalizedWeightsView();
@@ -42,9 +38,16 @@ public final class MulticlassObjective implements Objective {
         this.classes = data.classes();
         this.intercept = intercept;
         this.stride = intercept ? d + 1 : d;
-        this.layout = PenaltyLayout.blocks(penalty, classes, d, intercept);
         this.z = new double[classes];
         this.dz = new double[classes];
+    }
+
+    private static int requireClasses(Dataset data, MulticlassLoss loss) {
+        if (data.targetKind() != TargetKind.CLASSES) {
+            throw new IllegalArgumentException("the " + loss.name()
+                    + " loss needs class labels 0..K-1; build the dataset with labels(int[], K)");
+        }
+        return data.classes();
     }
 
     /** @throws IllegalArgumentException if the dataset does not hold class labels */
@@ -145,36 +148,6 @@ public final class MulticlassObjective implements Objective {
         }
         layout.addGradient(h, 1.0, g);
         return sum * inv + layout.value(h);
-    }
-
-    @Override
-    public Penalty penalty() {
-        return layout.penalty();
-    }
-
-    @Override
-    public double penaltyValue(double[] h) {
-        return layout.value(h);
-    }
-
-    @Override
-    public void addPenaltyGradient(double[] h, double scale, double[] g) {
-        layout.addGradient(h, scale, g);
-    }
-
-    @Override
-    public void proximalStep(double[] h, double step) {
-        layout.proximalStep(h, step);
-    }
-
-    @Override
-    public void fullProximalStep(double[] h, double step) {
-        layout.fullProximalStep(h, step);
-    }
-
-    @Override
-    public boolean penalized(int j) {
-        return layout.penalized(j);
     }
 
     @Override
