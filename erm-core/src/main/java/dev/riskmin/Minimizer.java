@@ -18,9 +18,12 @@ import dev.riskmin.penalty.Penalty;
 import dev.riskmin.sampling.BatchSource;
 import dev.riskmin.sampling.Sampling;
 import dev.riskmin.sampling.SamplingContext;
+import dev.riskmin.step.Calibration;
 import dev.riskmin.step.StepCalibration;
 import dev.riskmin.step.StepSchedule;
 import dev.riskmin.util.Arguments;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
 
 import java.time.Duration;
 import java.util.random.RandomGenerator;
@@ -44,6 +47,7 @@ import java.util.random.RandomGeneratorFactory;
  * decisions about people, money or safety, under the domain's own rules and review.
  */
 public final class Minimizer {
+    private static final Logger LOG = LoggerFactory.getLogger(Minimizer.class);
     private static final String GENERATOR = "L64X128MixRandom";
     private static final int CALIBRATION_SAMPLES = 1000;
 
@@ -270,7 +274,9 @@ public final class Minimizer {
             return StepSchedule.constant(rule.defaultStepSize(lMax));
         }
         int trial = Math.min(objective.size(), CALIBRATION_SAMPLES);
-        double eps0 = StepCalibration.of(batchSize).withTrialSamples(trial).calibrate(objective, h0, rng).stepSize();
+        Calibration calibration = StepCalibration.of(batchSize).withTrialSamples(trial).calibrate(objective, h0, rng);
+        LOG.debug("default step size calibrated on {} samples: {}", trial, calibration);
+        double eps0 = calibration.stepSize();
         return StepSchedule.polynomial(eps0, stepsPerEpoch, 0.75);
     }
 
