@@ -252,7 +252,10 @@ public final class AngleMonitor implements Monitor {
         return 1.0;
     }
 
-    /** @return a copy of the histogram's counts: bin k covers [−1 + 2k/BINS, −1 + 2(k+1)/BINS) (the last includes 1) */
+    /**
+     * @return a copy of the histogram's counts: bin k covers [−1 + 2k/BINS, −1 + 2(k+1)/BINS) (the
+     * last one includes 1)
+     */
     public long[] histogram() {
         return histogram.clone();
     }

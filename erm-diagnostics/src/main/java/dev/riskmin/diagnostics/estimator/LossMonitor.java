@@ -67,7 +67,7 @@ public final class LossMonitor implements Monitor {
     public static final double DEFAULT_SMOOTHING = 0.05;
     /** The default noise allowance z, in standard deviations of the batch loss. */
     public static final double DEFAULT_ALLOWANCE = 2.0;
-    /** The default budget, in percent of the fit's gradient evaluations, for the objective and for the held-out loss. */
+    /** The default budget of each measured figure, in percent of the fit's gradient evaluations. */
     public static final int DEFAULT_SHARE_PERCENT = 1;
     /** The number of objective measurements kept for the relative decrease. */
     public static final int HISTORY = 256;
@@ -114,7 +114,10 @@ public final class LossMonitor implements Monitor {
         this.reportEvery = reportEvery;
     }
 
-    /** α = 0.05, z = 2, objective and held-out loss within 1 % of the fit's evaluations each, about 20 events per epoch. */
+    /**
+     * α = 0.05, z = 2, the objective and the held-out loss within 1 % of the fit's evaluations each,
+     * about 20 events per epoch.
+     */
     public static LossMonitor defaults() {
         Cadence budget = Cadence.share(DEFAULT_SHARE_PERCENT / 100.0);
         return new LossMonitor(DEFAULT_SMOOTHING, DEFAULT_ALLOWANCE, budget, budget, 0);

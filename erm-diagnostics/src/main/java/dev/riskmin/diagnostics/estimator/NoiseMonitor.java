@@ -37,7 +37,10 @@ import dev.riskmin.util.Arguments;
  * ‖G‖² itself. With an independent batch of B<sub>big</sub> draws as reference (n large),
  * ‖G<sub>big</sub>‖² − tr Σ/B<sub>big</sub>, unbiased because E‖G<sub>big</sub>‖² = ‖G‖² + tr Σ/B<sub>big</sub>
  * (METHODS §2). Without the reference at this probe, ‖ū‖² − V from the batch alone, unbiased
- * because E‖ū‖² = ‖G‖² + V.</li>
+ * because E‖ū‖² = ‖G‖² + V (with the strata, ū is the stratified mean Σ<sub>h</sub> W<sub>h</sub> ḡ<sub>h</sub>).
+ * Under importance sampling the tr Σ subtracted from ‖G<sub>big</sub>‖² is that of the scaled
+ * draws, while the host's reference batch is uniform: the correction is then off by the
+ * difference of the two traces over B<sub>big</sub>, small when B<sub>big</sub> is large.</li>
  * </ul>
  *
  * <h2>A batch of one</h2>
