@@ -21,7 +21,7 @@ import java.util.Arrays;
  * {@value #DEFAULT_SMOOTHING}, about 2/α − 1 = 39 steps), the exponentially weighted mean and
  * variance (Finch, "Incremental calculation of weighted mean and variance", 2009, from memory):
  * <pre>
- *   δ = ℓ<sub>t</sub> − m;  m ← m + α δ;  v ← (1 − α)(v + α δ²)
+ *   δ = ℓ_t − m;  m ← m + α δ;  v ← (1 − α)(v + α δ²)
  * </pre>
  * with m = ℓ<sub>0</sub>, v = 0 at the first step. The smoothed batch loss is m (after including
  * ℓ<sub>t</sub>).

@@ -27,8 +27,8 @@ import dev.riskmin.util.Arguments;
  * (unscaled) otherwise. E[T] = tr Σ with replacement, tr S² without.</li>
  * <li>The variance of the batch mean V = E‖g<sub>B</sub> − G‖²: T/B with replacement;
  * (1 − B/n) T/B without (finite-population correction). Stratified sampling is also drawn without
- * replacement and gets the same form — a conservative one, since proportional allocation removes
- * the between-strata part (Cochran ch. 5) — unless the monitor is given the strata
+ * replacement and gets the same form — a conservative one (approximately: proportional allocation
+ * removes the between-strata part of the variance, Cochran ch. 5) — unless the monitor is given the strata
  * ({@link #withStrata}); then V = Σ<sub>h</sub> W<sub>h</sub>² (1 − n<sub>h</sub>/N<sub>h</sub>)
  * T<sub>h</sub>/n<sub>h</sub> from the within-stratum estimates T<sub>h</sub>, for batches in which
  * every stratum has at least two draws (or all its members).</li>
@@ -196,6 +196,9 @@ public final class NoiseMonitor implements Monitor {
     /**
      * @param size B<sub>big</sub> to assume for an inexact reference until one is seen computed (it
      *             should match the host's {@code referenceBatch}; default 4,096, the host's default)
+     * @implNote The step context does not say how large its reference batch is; the monitor reads
+     * B<sub>big</sub> off the probe's evaluation count whenever its own call computes the reference
+     * (the probe counts an independent batch as its size), and falls back on this value otherwise.
      */
     public NoiseMonitor withReferenceBatch(int size) {
         Arguments.positive("referenceBatch", size);
