@@ -7,8 +7,6 @@ import org.slf4j.LoggerFactory;
 
 import java.io.IOException;
 import java.io.Writer;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.Arrays;
 import java.util.Map;
@@ -33,7 +31,9 @@ import java.util.Optional;
  * unquoted cell in a text column of the row's kind means "no text" (null), a quoted empty cell the
  * empty string. The verdict's figures are one cell, {@code name=value} pairs joined by {@code ;} in
  * name order, with {@code \}, {@code =} and {@code ;} in names escaped by a backslash.
- * {@link TraceReader#csv} reads the rows back into equal records.
+ * {@link TraceReader#csv} reads the rows back into equal records. Beyond the RFC's ASCII grammar,
+ * cells carry any text as is; a file is written in UTF-8, where a lone surrogate (which UTF-8 cannot
+ * carry) becomes '?'.
  *
  * <p>Not thread-safe for events (the fitting thread delivers them); {@link #close()}, {@link #flush()}
  * and the accessors may be called from any thread. See {@link TraceWriter} for buffering and failure.
@@ -66,15 +66,16 @@ public final class CsvTraceWriter implements TraceWriter {
         }
     };
 
-    private CsvTraceWriter(Writer out, String description) {
-        this.output = new TraceOutput(out, description, LoggerFactory.getLogger(CsvTraceWriter.class));
+    private CsvTraceWriter(TraceOutput output) {
+        this.output = output;
         output.header(String.join(",", TraceSchema.COLUMNS) + LINE_END);
     }
 
     /** A writer to the given stream, which it then owns (closes on {@link #close()}). */
     public static CsvTraceWriter to(Writer out) {
         Arguments.notNull("out", out);
-        return new CsvTraceWriter(out, "CSV to " + out.getClass().getSimpleName());
+        return new CsvTraceWriter(TraceOutput.of(out, "CSV to " + out.getClass().getSimpleName(),
+                LoggerFactory.getLogger(CsvTraceWriter.class)));
     }
 
     /**
@@ -84,7 +85,8 @@ public final class CsvTraceWriter implements TraceWriter {
      */
     public static CsvTraceWriter open(Path file) throws IOException {
         Arguments.notNull("file", file);
-        return new CsvTraceWriter(Files.newBufferedWriter(file, StandardCharsets.UTF_8), "CSV file " + file);
+        return new CsvTraceWriter(TraceOutput.open(file, "CSV file " + file,
+                LoggerFactory.getLogger(CsvTraceWriter.class)));
     }
 
     @Override

@@ -7,8 +7,6 @@ import org.slf4j.LoggerFactory;
 
 import java.io.IOException;
 import java.io.Writer;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.Map;
 import java.util.Optional;
@@ -73,14 +71,15 @@ public final class JsonLinesTraceWriter implements TraceWriter {
         }
     };
 
-    private JsonLinesTraceWriter(Writer out, String description) {
-        this.output = new TraceOutput(out, description, LoggerFactory.getLogger(JsonLinesTraceWriter.class));
+    private JsonLinesTraceWriter(TraceOutput output) {
+        this.output = output;
     }
 
     /** A writer to the given stream, which it then owns (closes on {@link #close()}). */
     public static JsonLinesTraceWriter to(Writer out) {
         Arguments.notNull("out", out);
-        return new JsonLinesTraceWriter(out, "JSON lines to " + out.getClass().getSimpleName());
+        return new JsonLinesTraceWriter(TraceOutput.of(out, "JSON lines to " + out.getClass().getSimpleName(),
+                LoggerFactory.getLogger(JsonLinesTraceWriter.class)));
     }
 
     /**
@@ -90,8 +89,8 @@ public final class JsonLinesTraceWriter implements TraceWriter {
      */
     public static JsonLinesTraceWriter open(Path file) throws IOException {
         Arguments.notNull("file", file);
-        return new JsonLinesTraceWriter(Files.newBufferedWriter(file, StandardCharsets.UTF_8),
-                "JSON-lines file " + file);
+        return new JsonLinesTraceWriter(TraceOutput.open(file, "JSON-lines file " + file,
+                LoggerFactory.getLogger(JsonLinesTraceWriter.class)));
     }
 
     @Override

@@ -41,7 +41,8 @@ final class JsonText {
                 default -> {
                     boolean lone = Character.isHighSurrogate(ch)
                             ? !(i + 1 < n && Character.isLowSurrogate(value.charAt(i + 1)))
-                            : Character.isLowSurrogate(ch) && !(i > 0 && Character.isHighSurrogate(value.charAt(i - 1)));
+                            : Character.isLowSurrogate(ch)
+                                    && !(i > 0 && Character.isHighSurrogate(value.charAt(i - 1)));
                     // Lone surrogates would not survive UTF-8; line and paragraph separators break
                     // some line-oriented readers. Both are legal as escapes.
                     if (ch < 0x20 || ch == '\u2028' || ch == '\u2029' || lone) {
@@ -232,7 +233,8 @@ final class JsonText {
                     return b.toString();
                 }
                 if (ch < 0x20) {
-                    throw error("unescaped control character U+" + String.format(java.util.Locale.ROOT, "%04X", (int) ch) + " in a string");
+                    throw error("unescaped control character U+"
+                            + String.format(java.util.Locale.ROOT, "%04X", (int) ch) + " in a string");
                 }
                 if (ch != '\\') {
                     b.append(ch);

@@ -27,7 +27,11 @@ public interface TraceWriter extends EventListener, AutoCloseable {
     /** @return the first failure of the stream, if any */
     Optional<IOException> failure();
 
-    /** @return the events written (buffered or through) */
+    /**
+     * @return the events accepted (into the buffer or through to the stream); after a failure, those
+     * still in the buffer when the stream failed never reached it. Accepted plus dropped is every
+     * event received.
+     */
     long eventsWritten();
 
     /** @return the events dropped because the stream had failed or the writer was closed */

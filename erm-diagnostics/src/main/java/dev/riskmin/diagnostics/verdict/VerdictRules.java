@@ -27,8 +27,10 @@ import java.util.Map;
  * component there by (1 − ελ); with noise of variance s² the stationary correlation of successive
  * gradients is −γ a s²/(2 − γ a) over 2s²/(2 − γ a), i.e. −ελ/2 (derived from the stationarity check
  * of METHODS §4 on the test of Chee &amp; Toulis, AISTATS 2018); without noise the component changes
- * sign at every step once ελ &gt; 1. Either way c &lt; −1/2 means ελ &gt; 1 along the directions that
- * carry the gradient: the steps overshoot the minimum. Advice: ε/max(2, −4c), which brings the
+ * sign at every step once ελ &gt; 1. The mean cosine tracks that correlation when gradient norms vary
+ * little from step to step (many directions; in one dimension it is (2/π) arcsin of it instead), so
+ * c &lt; −1/2 means roughly ελ &gt; 1 along the directions that carry the gradient: the steps
+ * overshoot the minimum (derived). Advice: ε/max(2, −4c), which brings the
  * estimate ελ ≈ −2c down to about 1/2 and is at least a halving (derived; halving alone suffices on a
  * quadratic that did not diverge, where ελ &lt; 2). On the ascent evidence alone: halve the step.</li>
  * <li><b>NOISE_DOMINATED</b> — the objective's trend was measured and it no longer falls, while the
@@ -110,9 +112,9 @@ public final class VerdictRules {
             double divisor = Math.max(2, -4 * c);
             figures.put("suggestedStepSize", eps / divisor);
             return new HealthVerdict(Condition.STEP_TOO_LARGE,
-                    fmt("successive batch gradients point against each other (mean cosine %s, below %s): the steps"
-                                    + " overshoot the minimum, with step size × curvature ≈ %s > 1 along the directions"
-                                    + " that carry the gradient (step size %s).", sig(c), sig(OSCILLATION_COSINE),
+                    fmt("successive batch gradients point against each other (mean cosine %s, below %s): the"
+                                    + " steps overshoot the minimum, with step size × curvature ≈ %s > 1 along the"
+                                    + " directions that carry the gradient (step size %s).", sig(c), sig(OSCILLATION_COSINE),
                             sig(-2 * c), sig(eps)),
                     Double.isFinite(eps)
                             ? fmt("cut the step size to about %s (a factor %s, which brings step size × curvature"
@@ -171,8 +173,9 @@ public final class VerdictRules {
                     ? fmt("use the full batch of about %d samples", s.sampleCount)
                     : fmt("raise the batch size to about %d", batch);
             return new HealthVerdict(Condition.NOISE_DOMINATED,
-                    fmt("gradient noise swamps the signal: at batch size %d the batch-mean gradient's variance is"
-                                    + " %s times ‖G‖² (noise scale %s%s), and the objective has stopped falling (%s).",
+                    fmt("gradient noise swamps the signal: at batch size %d the batch-mean gradient's variance"
+                                    + " is %s times ‖G‖² (noise scale %s%s), and the objective has stopped falling"
+                                    + " (%s).",
                             s.batchSize, sig(noiseToSignal), sig(noiseScale),
                             fromCosine ? fmt(", estimated from the mean descent cosine %s", sig(s.meanCosine)) : "",
                             window),

@@ -76,6 +76,8 @@ class VerdictEndToEndTest {
         double lambda = largestCurvature(problem);
         double step = 1.6 / lambda;
         Minimizer.Builder b = Minimizer.builder().sampling(Sampling.withReplacement()).batchSize(64).epochs(10).seed(3);
+        // Measured: successive cosine -0.718, suggested step 0.526 (a factor 2.87 below 1.51); with it
+        // eps * lambdaMax = 0.56 and the cosine rises to -0.31.
         Run run = run(b.stepSize(step).build(), problem, 4);
         HealthVerdict v = run.verdict();
         assertEquals(Condition.STEP_TOO_LARGE, v.condition(), v.toString());
@@ -94,6 +96,8 @@ class VerdictEndToEndTest {
     void tinyBatchOnNoisyDataIsJudgedNoiseDominatedWithABatchNearTheNoiseScale() {
         LeastSquaresProblem problem = LeastSquaresProblem.gaussian(7, 2000, 4, 2.0);
         Minimizer.Builder b = Minimizer.builder().sampling(Sampling.withReplacement()).batchSize(1).epochs(3).seed(5);
+        // Measured: noise scale 48.2 at the default step 0.0508 (the stationary balance predicts about
+        // 2/(eps lambda) = 39 for lambda near 1, derived), so the advice is a batch of 49.
         Run run = run(b.build(), problem, 25);
         HealthVerdict v = run.verdict();
         assertEquals(Condition.NOISE_DOMINATED, v.condition(), v.toString());
@@ -114,7 +118,7 @@ class VerdictEndToEndTest {
         LeastSquaresProblem problem = LeastSquaresProblem.gaussian(9, 2000, 4, 0.5);
         Run run = run(Minimizer.builder().sampling(Sampling.withReplacement()).batchSize(32).stepSize(0.005)
                 .epochs(1).seed(2).build(), problem, 2);
-        HealthVerdict v = run.verdict();
+        HealthVerdict v = run.verdict(); // measured: 20.7% +- 0.26% over the last window; advice 2.02 epochs
         assertEquals(Condition.STILL_DESCENDING, v.condition(), v.toString());
         double epochs = 2 * run.fit().epochs();
         assertEquals(epochs, adviceNumber(v), 5e-3 * epochs, v.advice()); // three significant digits
@@ -127,7 +131,7 @@ class VerdictEndToEndTest {
     void varianceReducedFitIsJudgedConverged() {
         LeastSquaresProblem problem = LeastSquaresProblem.gaussian(13, 500, 4, 0.5);
         Run run = run(Minimizer.builder().updateRule(UpdateRule.svrg()).epochs(20).seed(1).build(), problem, 50);
-        HealthVerdict v = run.verdict();
+        HealthVerdict v = run.verdict(); // measured: gradient ratio 4.9e-15
         assertEquals(Condition.CONVERGED, v.condition(), v.toString());
         assertTrue(v.figures().get("gradientRatio") <= VerdictRules.CONVERGED_GRADIENT_RATIO, v.toString());
         assertTrue(v.advice().startsWith("nothing for the optimizer"), v.advice());
