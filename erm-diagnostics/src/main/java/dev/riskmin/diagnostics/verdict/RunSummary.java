@@ -33,6 +33,12 @@ public final class RunSummary {
     public double previousObjective = Double.NaN;
     /** Relative decrease of the objective over the last measurement window: (previous − latest)/|previous|. */
     public double recentRelativeDecrease = Double.NaN;
+    /**
+     * The standard error of {@link #recentRelativeDecrease} (same units), when the monitor that measures
+     * the trend can estimate it (e.g. from the residuals of a line fitted to the window's objectives);
+     * NaN otherwise. With it, a decrease counts as real only when it exceeds twice its error.
+     */
+    public double recentDecreaseError = Double.NaN;
     /** The latest full-gradient norm and the one at the start. */
     public double gradientNorm = Double.NaN;
     public double initialGradientNorm = Double.NaN;
@@ -48,6 +54,12 @@ public final class RunSummary {
     public double descentShare = Double.NaN;
     /** The number of angle probes behind those figures. */
     public long angleProbes;
+
+    /**
+     * The mean cosine between successive batch gradients, cos(g<sub>B,t−1</sub>, g<sub>B,t</sub>), over the
+     * recent steps, if tracked. Strongly negative values mean the steps overshoot: see {@link VerdictRules}.
+     */
+    public double successiveCosine = Double.NaN;
 
     /** The share of steps whose batch loss rose above the previous smoothed loss by more than its noise, if tracked. */
     public double ascentShare = Double.NaN;
