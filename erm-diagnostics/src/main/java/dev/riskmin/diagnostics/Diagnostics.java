@@ -130,6 +130,9 @@ public final class Diagnostics implements FitListener {
         if (Double.isNaN(summary.initialObjective)) {
             summary.initialObjective = fit.initialObjective();
         }
+        if (Double.isNaN(summary.latestObjective)) {
+            summary.latestObjective = fit.finalObjective();
+        }
         context.view = null;
         for (int m = 0; m < monitors.size(); m++) {
             if (!monitorDetached[m]) {

@@ -11,5 +11,7 @@ public enum Condition {
     /** The step is too large: the loss oscillates and many steps go uphill. */
     STEP_TOO_LARGE,
     /** The loss or the parameters blew up. */
-    DIVERGED
+    DIVERGED,
+    /** Too little was measured to judge (no objective trend, no gradient norm): measure before trusting the fit. */
+    UNDETERMINED
 }

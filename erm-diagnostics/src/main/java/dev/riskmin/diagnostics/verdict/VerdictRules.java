@@ -46,8 +46,9 @@ import java.util.Map;
  * <li><b>STILL_DESCENDING</b> — the objective fell by more than {@value #STILL_FALLING} (relative) over
  * the last measurement window, and by more than {@value #SIGNIFICANCE} standard errors when the error
  * is known. Advice: double the budget (epochs and steps given).</li>
- * <li><b>CONVERGED</b> — otherwise: the objective no longer falls; or nothing was measured that
- * contradicts convergence, which the summary then says, advising to measure the trend.</li>
+ * <li><b>CONVERGED</b> — otherwise, when the objective was measured and no longer falls.</li>
+ * <li><b>UNDETERMINED</b> — nothing was measured that could show convergence; the advice is to
+ * measure the trend.</li>
  * </ol>
  * The thresholds are this library's choices (common practice, no source). Numbers in the texts have
  * three significant digits and use {@link Locale#ROOT}.
@@ -207,8 +208,8 @@ public final class VerdictRules {
                             sig(s.latestObjective), gradient, stopped, s.steps),
                     "nothing for the optimizer; validate the model on held-out data", figures);
         }
-        return new HealthVerdict(Condition.CONVERGED,
-                fmt("no objective trend was measured, so nothing contradicts convergence%s; %s after %d steps (%s"
+        return new HealthVerdict(Condition.UNDETERMINED,
+                fmt("no objective trend was measured, so convergence cannot be judged%s; %s after %d steps (%s"
                         + " epochs).", gradient, stopped, s.steps, sig(s.epochs)),
                 "measure the objective's trend (a loss monitor) before trusting this fit; validate the model on"
                         + " held-out data",

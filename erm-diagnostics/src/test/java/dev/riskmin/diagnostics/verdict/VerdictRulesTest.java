@@ -164,7 +164,7 @@ class VerdictRulesTest {
         s.noiseScale = 400;
         s.recentRelativeDecrease = Double.NaN;
         HealthVerdict v = VerdictRules.judge(s);
-        assertEquals(Condition.CONVERGED, v.condition());
+        assertEquals(Condition.UNDETERMINED, v.condition());
         assertTrue(v.summary().startsWith("no objective trend was measured"), v.summary());
     }
 
@@ -214,7 +214,7 @@ class VerdictRulesTest {
     @Test
     void emptySummaryClaimsNothingItDidNotMeasure() {
         HealthVerdict v = VerdictRules.judge(new RunSummary());
-        assertEquals(Condition.CONVERGED, v.condition());
+        assertEquals(Condition.UNDETERMINED, v.condition());
         assertTrue(v.summary().startsWith("no objective trend was measured"), v.summary());
         assertTrue(v.summary().contains("the fit still running"), v.summary());
         assertTrue(v.advice().startsWith("measure the objective's trend"), v.advice());
