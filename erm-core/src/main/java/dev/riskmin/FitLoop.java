@@ -27,7 +27,8 @@ import java.util.random.RandomGenerator;
  * <p>Divergence guard: a non-finite batch loss, or a smoothed batch loss that exceeds the starting
  * objective by {@code explosionFactor} (|L<sub>0</sub>| + 1), stops the fit with
  * {@link StopReason#DIVERGED}; the parameters are those of the last check at which they were all
- * finite (checked every {@value #CHECK_EVERY} steps and at every epoch end).
+ * finite (checked every {@value #CHECK_EVERY} steps — further apart for sparse steps, so the O(p) check
+ * costs about as much as the steps between two checks — and at every epoch end).
  */
 final class FitLoop implements StepView, Probe, FitControl {
     private static final Logger LOG = LoggerFactory.getLogger(FitLoop.class);
@@ -79,6 +80,10 @@ final class FitLoop implements StepView, Probe, FitControl {
     private String haltDetail = "";
     private boolean inListeners;
     private double[] restored;
+    private final boolean lazy;        // the updater keeps h in its own form
+    private boolean parametersStale;   // h needs materializing before it is read
+    private boolean gradientStale;     // g_B needs filling before it is read
+    private final long checkEvery;
 
     FitLoop(Objective objective, Objective heldOut, double[] h0, Settings settings, List<FitListener> listeners,
             CancellationToken token) {
@@ -97,6 +102,27 @@ final class FitLoop implements StepView, Probe, FitControl {
         this.batch = new int[batchSize];
         this.scales = new double[batchSize];
         this.averager = settings.averaging().start(p, settings.info().plannedSteps());
+        this.lazy = settings.updater().lazy();
+        long touched = Math.max(1, settings.updater().touchedPerStep(settings.batchSize()));
+        // Dense steps cost O(p) anyway; sparse ones touch few entries, so the O(p) check is spaced out
+        // to cost about as much as the steps between two checks.
+        this.checkEvery = Math.max(CHECK_EVERY, touched >= p ? CHECK_EVERY : p / touched);
+    }
+
+    /** Brings h up to date for a reader (lazy updaters only). */
+    private void freshParameters() {
+        if (parametersStale) {
+            settings.updater().materialize(h);
+            parametersStale = false;
+        }
+    }
+
+    /** Brings g_B up to date for a reader (lazy updaters only). */
+    private void freshGradient() {
+        if (gradientStale) {
+            settings.updater().fillGradient(gradient);
+            gradientStale = false;
+        }
     }
 
     Outcome run() {
@@ -134,6 +160,7 @@ final class FitLoop implements StepView, Probe, FitControl {
             }
             source.next(batch, scales, b);
             double loss = updater.gradient(h, batch, uniform ? null : scales, b, gradient);
+            gradientStale = lazy;
             batchLoss = loss;
             stepSize = settings.schedule().stepSize(t) * stepFactor;
             if (!Double.isFinite(loss)) {
@@ -161,12 +188,18 @@ final class FitLoop implements StepView, Probe, FitControl {
                 break;
             }
             updater.update(h, gradient, stepSize);
+            parametersStale = lazy;
+            gradientStale = false;
             long before = draws / n;
             t++;
             draws += b;
-            averager.add(h, t - 1);
+            if (averager.active()) {
+                freshParameters();
+                averager.add(h, t - 1);
+            }
             boolean epochEnd = draws / n > before;
-            if (epochEnd || t % CHECK_EVERY == 0) {
+            if (epochEnd || t % checkEvery == 0) {
+                freshParameters();
                 if (allFinite(h)) {
                     System.arraycopy(h, 0, lastFinite, 0, p);
                 } else {
@@ -184,6 +217,9 @@ final class FitLoop implements StepView, Probe, FitControl {
                     break;
                 }
             }
+        }
+        if (reason != StopReason.DIVERGED) {
+            freshParameters();
         }
         if (!allFinite(h)) {
             restoreLastFinite();
@@ -378,21 +414,25 @@ final class FitLoop implements StepView, Probe, FitControl {
 
     @Override
     public double parameter(int j) {
+        freshParameters();
         return h[j];
     }
 
     @Override
     public void copyParameters(double[] into) {
+        freshParameters();
         System.arraycopy(h, 0, into, 0, p);
     }
 
     @Override
     public double batchGradient(int j) {
+        freshGradient();
         return gradient[j];
     }
 
     @Override
     public void copyBatchGradient(double[] into) {
+        freshGradient();
         System.arraycopy(gradient, 0, into, 0, p);
     }
 
@@ -416,6 +456,7 @@ final class FitLoop implements StepView, Probe, FitControl {
     @Override
     public double sampleGradient(int k, double[] into) {
         int i = batchIndex(k);
+        freshParameters();
         Arrays.fill(into, 0, p, 0.0);
         double loss = objective.addSampleGradient(h, i, 1.0, into);
         objective.addPenaltyGradient(h, 1.0, into);
@@ -426,12 +467,14 @@ final class FitLoop implements StepView, Probe, FitControl {
     @Override
     public double fullGradient(double[] into) {
         probeEvaluations += n;
+        freshParameters();
         return objective.gradient(h, into);
     }
 
     @Override
     public double objective() {
         probeEvaluations += n;
+        freshParameters();
         return objective.value(h);
     }
 
@@ -448,6 +491,7 @@ final class FitLoop implements StepView, Probe, FitControl {
             probeBatch[k] = rng.nextInt(n);
         }
         probeEvaluations += size;
+        freshParameters();
         return objective.batchGradient(h, probeBatch, null, 0, size, into);
     }
 
@@ -462,6 +506,7 @@ final class FitLoop implements StepView, Probe, FitControl {
             throw new IllegalStateException("this fit has no held-out data; pass it with FitOptions.builder().heldOut(...)");
         }
         int m = heldOut.size();
+        freshParameters();
         double sum = 0;
         for (int i = 0; i < m; i++) {
             sum += heldOut.sampleLoss(h, i);

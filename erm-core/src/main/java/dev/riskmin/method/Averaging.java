@@ -146,6 +146,11 @@ public final class Averaging {
             }
         }
 
+        /** @return whether this accumulator averages at all */
+        public boolean active() {
+            return kind != Kind.NONE;
+        }
+
         /** @return how many iterates the average holds */
         public long count() {
             return count;

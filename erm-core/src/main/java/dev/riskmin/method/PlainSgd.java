@@ -15,6 +15,14 @@ final class PlainSgd implements UpdateRule {
 
     @Override
     public Updater start(Objective objective, double[] h0, int stepsPerEpoch) {
+        if (LinearSgd.applies(objective)) {
+            return new LinearSgd(objective, objective.linearStructure(), h0);
+        }
+        return new State(objective);
+    }
+
+    /** The general path, for any objective: what {@link LinearSgd} must agree with. */
+    static Updater general(Objective objective) {
         return new State(objective);
     }
 

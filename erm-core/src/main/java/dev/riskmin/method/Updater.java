@@ -31,4 +31,30 @@ public interface Updater {
 
     /** @return the gradient evaluations (per-sample gradients) this rule has spent so far, in total */
     long gradientEvaluations();
+
+    /**
+     * @return whether this updater keeps the parameters in its own (lazy) form: then {@link #gradient}
+     * ignores its {@code h} and leaves {@code gradient} unwritten, {@link #update} ignores both arrays,
+     * and the caller must call {@link #materialize} before reading h and {@link #fillGradient} before
+     * reading g<sub>B</sub>. Sparse fast paths do this so that a step costs O(non-zeros), not O(p).
+     */
+    default boolean lazy() {
+        return false;
+    }
+
+    /** Writes the current parameters into h (lazy updaters only; O(p)). */
+    default void materialize(double[] h) {
+    }
+
+    /** Writes the last step's g<sub>B</sub> into {@code gradient} (lazy updaters only; O(p + B·row)). */
+    default void fillGradient(double[] gradient) {
+    }
+
+    /**
+     * @return about how many parameter entries one step of batch size B touches (p for dense
+     * updaters); the fit loop spaces its O(p) finiteness checks by p over this figure
+     */
+    default long touchedPerStep(int batchSize) {
+        return Long.MAX_VALUE;
+    }
 }

@@ -92,6 +92,11 @@ public final class ElasticNetPenalty implements Penalty {
     }
 
     @Override
+    public boolean elasticNetForm() {
+        return true;
+    }
+
+    @Override
     public double l1Strength() {
         return l1;
     }

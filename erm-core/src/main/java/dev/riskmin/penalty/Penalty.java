@@ -49,6 +49,14 @@ public interface Penalty {
         return l1Strength() == 0;
     }
 
+    /**
+     * @return whether R is exactly λ<sub>1</sub>‖w‖<sub>1</sub> + (λ<sub>2</sub>/2)‖w‖² with the strengths
+     * reported above, so that update rules may apply it in closed form (lazily, on sparse data)
+     */
+    default boolean elasticNetForm() {
+        return false;
+    }
+
     /** @return a short name for reports, e.g. "l2(0.01)" */
     String name();
 
