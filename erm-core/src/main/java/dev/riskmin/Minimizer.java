@@ -239,7 +239,8 @@ public final class Minimizer {
         BatchSource source = sampling.start(SamplingContext.of(n, strata, objective::sampleSmoothness), samplingRng);
         Updater updater = rule.start(objective, h0, stepsPerEpoch);
         RunInfo info = new RunInfo(n, objective.dimension(), batchSize, sampling.independentDraws(),
-                lossName(objective), penalty.name(), rule.name(), steps.name(), sampling.name(), planned, seed);
+                lossName(objective), penalty.name(), rule.name(), steps.name(), sampling.name(), planned, seed,
+                rule.varianceReduced());
         long timeNanos = timeLimit == null ? -1 : timeLimit.toNanos();
         FitLoop.Settings settings = new FitLoop.Settings(updater, source, sampling, steps, averaging, batchSize,
                 maxSteps, maxDraws, maxEvaluations, timeNanos, explosionFactor, probeRng, info);

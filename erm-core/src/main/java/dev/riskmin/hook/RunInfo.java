@@ -14,8 +14,10 @@ package dev.riskmin.hook;
  * @param sampling        the sampling's name
  * @param plannedSteps    the step budget implied by the step and epoch budgets, or -1 if none
  * @param seed            the seed of every random choice of the fit
+ * @param varianceReduced whether the update rule corrects its steps with control variates (SVRG, SAGA),
+ *                        so that gradient noise does not set a floor on the accuracy
  */
 public record RunInfo(int sampleCount, int dimension, int batchSize, boolean withReplacement, String loss,
                       String penalty, String updateRule, String schedule, String sampling, long plannedSteps,
-                      long seed) {
+                      long seed, boolean varianceReduced) {
 }

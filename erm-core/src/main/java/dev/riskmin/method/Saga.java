@@ -41,6 +41,11 @@ final class Saga implements UpdateRule {
     }
 
     @Override
+    public boolean varianceReduced() {
+        return true;
+    }
+
+    @Override
     public String name() {
         return "saga";
     }

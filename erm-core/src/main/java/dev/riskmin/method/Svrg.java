@@ -25,6 +25,11 @@ final class Svrg implements UpdateRule {
     }
 
     @Override
+    public boolean varianceReduced() {
+        return true;
+    }
+
+    @Override
     public String name() {
         return "svrg(epochsPerSnapshot=" + epochsPerSnapshot + ")";
     }

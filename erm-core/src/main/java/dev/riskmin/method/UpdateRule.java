@@ -20,6 +20,14 @@ public interface UpdateRule {
     /** @return a short name for reports */
     String name();
 
+    /**
+     * @return whether the rule corrects each step with control variates so that its variance vanishes
+     * at the optimum (SVRG, SAGA): then gradient noise sets no floor on the accuracy
+     */
+    default boolean varianceReduced() {
+        return false;
+    }
+
     /** @return a default constant step size for this rule on an objective whose gradients are L-Lipschitz */
     default double defaultStepSize(double lipschitz) {
         return 1.0 / lipschitz;

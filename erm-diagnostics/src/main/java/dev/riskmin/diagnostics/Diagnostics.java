@@ -1,6 +1,11 @@
 package dev.riskmin.diagnostics;
 
 import dev.riskmin.Fit;
+import dev.riskmin.diagnostics.estimator.AngleMonitor;
+import dev.riskmin.diagnostics.estimator.LossMonitor;
+import dev.riskmin.diagnostics.estimator.NoiseMonitor;
+import dev.riskmin.diagnostics.estimator.OscillationMonitor;
+import dev.riskmin.diagnostics.sink.Slf4jReporter;
 import dev.riskmin.diagnostics.verdict.HealthVerdict;
 import dev.riskmin.diagnostics.verdict.RunSummary;
 import dev.riskmin.diagnostics.verdict.VerdictRules;
@@ -52,6 +57,23 @@ public final class Diagnostics implements FitListener {
         return new Builder();
     }
 
+    /**
+     * The one-call set-up: the noise, angle, loss and oscillation monitors at their default
+     * cadences (together a few per cent of the fit's gradient evaluations), reported through SLF4J
+     * (logger {@code dev.riskmin.diagnostics}, INFO; noise, loss, stopping and verdict events, every
+     * 10th noise and loss event). Add stopping tests with {@link Builder#monitor}; they are not on by
+     * default because they steer or stop the fit.
+     */
+    public static Builder standard() {
+        return builder()
+                .monitor(NoiseMonitor.defaults())
+                .monitor(AngleMonitor.defaults())
+                .monitor(LossMonitor.defaults())
+                .monitor(OscillationMonitor.defaults())
+                .subscribe(Slf4jReporter.defaults(), EventFilter.of(EventKind.STOPPING, EventKind.VERDICT))
+                .subscribe(Slf4jReporter.defaults(), EventFilter.of(EventKind.NOISE, EventKind.LOSS).every(10));
+    }
+
     /** @return the summary of the run so far (live: updated as the fit goes on) */
     public RunSummary summary() {
         return summary;
@@ -75,6 +97,7 @@ public final class Diagnostics implements FitListener {
         summary.sampleCount = info.sampleCount();
         summary.batchSize = info.batchSize();
         summary.independentDraws = info.withReplacement();
+        summary.varianceReduced = info.varianceReduced();
         context.reset(info.dimension());
         for (int m = 0; m < monitors.size(); m++) {
             try {

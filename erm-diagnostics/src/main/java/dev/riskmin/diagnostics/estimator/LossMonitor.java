@@ -55,6 +55,10 @@ import java.util.Arrays;
  * about once per 100 epochs: short fits see the exact objective only through the fit's own final
  * objective (below) unless a cadence such as {@code Cadence.every(k)} is set.
  *
+ * <p>Until two exact objectives are measured, the trend comes from the smoothed batch loss an
+ * epoch apart, with its standard error (see {@code batchLossTrend}), so a short fit still gets a
+ * trend the verdict can weigh.
+ *
  * <p>When the fit ends with its last iterate (no averaging, no restored parameters), the fit's
  * final objective ({@link Fit#finalObjective()}, computed by the fit anyway) is recorded as a last
  * measurement for the summary. Events are published at each measurement and every
@@ -95,6 +99,8 @@ public final class LossMonitor implements Monitor {
     private long ascents;
     private double mean = Double.NaN;
     private double variance = Double.NaN;
+    private double snapshotMean = Double.NaN;
+    private double snapshotVariance = Double.NaN;
     private final long[] historyStep = new long[HISTORY];
     private final double[] historyValue = new double[HISTORY];
     private int historySize;
@@ -187,6 +193,8 @@ public final class LossMonitor implements Monitor {
         variance = Double.NaN;
         historySize = 0;
         historyNext = 0;
+        snapshotMean = Double.NaN;
+        snapshotVariance = Double.NaN;
         objective = Double.NaN;
         heldOut = Double.NaN;
         gradientNorm = Double.NaN;
@@ -219,6 +227,11 @@ public final class LossMonitor implements Monitor {
         }
         seen++;
         summary.lossOscillation = Math.sqrt(variance) / Math.abs(mean);
+        if (t > 0 && t % window == 0) {
+            batchLossTrend(summary);
+            snapshotMean = mean;
+            snapshotVariance = variance;
+        }
         long spent = v.gradientEvaluations();
         double measuredObjective = Double.NaN;
         double measuredNorm = Double.NaN;
@@ -295,6 +308,23 @@ public final class LossMonitor implements Monitor {
         }
     }
 
+    /**
+     * Without two exact objective measurements, the trend comes from the smoothed batch loss one
+     * window (an epoch) apart: decrease (m<sub>prev</sub> − m)/|m<sub>prev</sub>| with standard error
+     * √(se<sub>prev</sub>² + se²)/|m<sub>prev</sub>|, se² = v α/(2 − α), the variance of an exponential
+     * moving average of independent values of variance v (standard EWMA result, from memory). It
+     * covers the data term only (no penalty) and is noisy, which the error carries to the verdict.
+     */
+    private void batchLossTrend(RunSummary summary) {
+        if (historySize >= 2 || Double.isNaN(snapshotMean) || snapshotMean == 0) {
+            return;
+        }
+        double factor = smoothing / (2.0 - smoothing);
+        double error = Math.sqrt((snapshotVariance + variance) * factor) / Math.abs(snapshotMean);
+        summary.recentRelativeDecrease = (snapshotMean - mean) / Math.abs(snapshotMean);
+        summary.recentDecreaseError = error;
+    }
+
     /** Records the fit's own final objective when it is that of the last iterate. */
     @Override
     public void finished(Fit fit, StepContext context) {
@@ -303,6 +333,7 @@ public final class LossMonitor implements Monitor {
             record(fit.steps(), value, context.summary());
             objective = value;
         }
+        batchLossTrend(context.summary());
     }
 
     /** @return the smoothed batch loss m (NaN before the first step) */

@@ -24,6 +24,8 @@ public final class RunSummary {
     public double stepSize = Double.NaN;
     /** Whether batches were drawn with replacement (i.i.d.). */
     public boolean independentDraws;
+    /** Whether the update rule is variance-reduced (SVRG, SAGA), so gradient noise sets no accuracy floor. */
+    public boolean varianceReduced;
 
     /** The objective at the start (estimate), and the latest full objective measured. */
     public double initialObjective = Double.NaN;

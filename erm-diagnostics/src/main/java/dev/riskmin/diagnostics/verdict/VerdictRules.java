@@ -42,7 +42,9 @@ import java.util.Map;
  * cos φ ≈ (1 + B<sub>s</sub>/B)<sup>−1/2</sup> (METHODS §3; derived, not exact). Advice: a batch of about
  * B<sub>*</sub> (McCandlish et al.: the useful batch is about the noise scale), or a step of about
  * ε B/B<sub>*</sub>, since the noise floor of constant-step SGD grows as ε M/B (Bottou, Curtis &amp;
- * Nocedal, SIAM Review 60(2), 2018, Thm 4.6 with M divided by B), or a variance-reduced rule.</li>
+ * Nocedal, SIAM Review 60(2), 2018, Thm 4.6 with M divided by B), or a variance-reduced rule. Never
+ * for a variance-reduced rule (SVRG, SAGA): its steps' variance vanishes at the optimum, so a large
+ * noise scale there only says that ‖G‖ is small.</li>
  * <li><b>STILL_DESCENDING</b> — the objective fell by more than {@value #STILL_FALLING} (relative) over
  * the last measurement window, and by more than {@value #SIGNIFICANCE} standard errors when the error
  * is known. Advice: double the budget (epochs and steps given).</li>
@@ -159,7 +161,7 @@ public final class VerdictRules {
                 Double.isFinite(s.recentDecreaseError) ? " ± " + sig(100 * s.recentDecreaseError) + "%" : "")
                 : "not measured";
 
-        if (noiseKnown && stalled && needed > NOISE_FACTOR * s.batchSize) {
+        if (noiseKnown && stalled && needed > NOISE_FACTOR * s.batchSize && !s.varianceReduced) {
             long batch = (long) Math.ceil(needed);
             figures.put("suggestedBatchSize", (double) batch);
             double noiseToSignal = noiseScale / s.batchSize
