@@ -7,6 +7,8 @@ import dev.riskmin.hook.RunInfo;
 import dev.riskmin.hook.StepView;
 import dev.riskmin.util.Arguments;
 
+import java.util.Arrays;
+
 /**
  * The norm test of Byrd, Chin, Nocedal &amp; Wu ("Sample size selection in optimization methods for
  * machine learning", Math. Program. B 134:127–155, 2012; METHODS §4): grows the batch S until the
@@ -25,8 +27,11 @@ import dev.riskmin.util.Arguments;
  * shrinks.
  *
  * <p>Because ‖g<sub>S</sub>‖² estimates ‖G‖² + tr Σ/|S| rather than ‖G‖², the sample form is satisfied in
- * expectation once |S| ≥ B<sub>simple</sub>(1 − θ²)/θ² (derived), not B<sub>simple</sub>/θ²; the two agree
- * for small θ.
+ * expectation once |S| ≥ B<sub>simple</sub>(1 − θ²)/θ² (derived), not B<sub>simple</sub>/θ²: at the default
+ * θ = 0.9 that is about a fifth of B<sub>simple</sub>/θ², while for θ² ≤ ½ the two are within a factor 2.
+ * The sample form also ignores the finite-population factor (1 − |S|/n) of sampling
+ * without replacement (METHODS §1), so there it asks for somewhat more than needed as |S| nears n; and
+ * it treats a stratified batch as a simple one.
  *
  * <p>Default θ = 0.9: the value seen paired with ν = 5.84 (for the augmented inner-product test) in a
  * public script comparing the two tests, not in the paper (METHODS §4). A batch of one has no sample
@@ -121,7 +126,7 @@ public final class NormTestCriterion implements Monitor {
         double[] rows = context.sampleGradients();
         int p = view.dimension();
         double[] g = mean;
-        java.util.Arrays.fill(g, 0.0);
+        Arrays.fill(g, 0.0);
         for (int k = 0; k < b; k++) {
             double s = view.batchScale(k);
             int off = k * p;

@@ -27,7 +27,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 /**
  * With their default action the stationarity tests cut the step and go on: every cut is a
  * {@link Decision#CUT_STEP} event, counted in the run summary, multiplies the step size the fit applies
- * by the test's factor, and starts a new phase (burn-in, or minimum sample count) before the next.
+ * by the test's factor, and starts a new phase (burn-in, or minimum count of values) before the next.
  */
 class StepSizeCutsTest {
 
@@ -47,16 +47,28 @@ class StepSizeCutsTest {
         NoiseBallProblem q = NoiseBallProblem.of(43, 2000, 4, 1.0, 0.15, 0.05, 16, 100.0);
         Run run = run(q, 0.05, 16, FluctuationDissipationCriterion.defaults(), (long) (20 * q.transientSteps));
         assertCutsConsistent(run, FluctuationDissipationCriterion.DEFAULT_CUT_FACTOR);
-        for (int k = 1; k < run.cuts.size(); k++) {
-            assertTrue(run.cuts.get(k).step() - run.cuts.get(k - 1).step() >= FluctuationDissipationCriterion.DEFAULT_MIN_SAMPLES,
-                    "window cleared: " + run.cuts);
+        // After a cut the count restarts: the tests of the next 1,000 steps have too few values (NaN
+        // statistic), the first one after them has a statistic again.
+        long cut = run.cuts().get(0).step();
+        boolean testedAgain = false;
+        for (StoppingEvent e : run.events()) {
+            long since = e.step() - cut;
+            if (since > 0 && since < FluctuationDissipationCriterion.DEFAULT_MIN_SAMPLES) {
+                assertTrue(Double.isNaN(e.statistic()) && e.decision() == Decision.CONTINUE, e.toString());
+            } else if (since >= FluctuationDissipationCriterion.DEFAULT_MIN_SAMPLES && !testedAgain) {
+                assertTrue(Double.isFinite(e.statistic()), e.toString());
+                testedAgain = true;
+            }
         }
+        assertTrue(testedAgain, "no test after the cut within the budget");
     }
 
-    record Run(Fit fit, Diagnostics diagnostics, List<StoppingEvent> cuts, Map<Long, Double> steps) {
+    record Run(Fit fit, Diagnostics diagnostics, List<StoppingEvent> events, List<StoppingEvent> cuts,
+               Map<Long, Double> steps) {
     }
 
     private static Run run(NoiseBallProblem q, double step, int batch, Monitor test, long budget) {
+        List<StoppingEvent> events = new ArrayList<>();
         List<StoppingEvent> cuts = new ArrayList<>();
         Map<Long, Double> steps = new HashMap<>();
         FitListener stepSizes = new FitListener() {
@@ -66,6 +78,7 @@ class StepSizeCutsTest {
             }
         };
         Diagnostics diagnostics = Diagnostics.builder().monitor(test).subscribe(e -> {
+            events.add((StoppingEvent) e);
             if (((StoppingEvent) e).decision() == Decision.CUT_STEP) {
                 cuts.add((StoppingEvent) e);
             }
@@ -75,7 +88,7 @@ class StepSizeCutsTest {
                 .maxSteps(budget).seed(7).build()
                 .fit(q.data, FitOptions.builder().initialParameters(q.start).listener(diagnostics).listener(stepSizes)
                         .build());
-        return new Run(fit, diagnostics, cuts, steps);
+        return new Run(fit, diagnostics, events, cuts, steps);
     }
 
     private static void assertCutsConsistent(Run run, double factor) {
