@@ -73,4 +73,6 @@ public final class RunSummary {
     public int batchIncreases;
     /** The name of the stopping test that stopped the run, if one did. */
     public String stoppedBy;
+    /** The best held-out loss a held-out test measured (at an epoch end), if one ran. */
+    public double bestHeldOutLoss = Double.NaN;
 }
