@@ -523,14 +523,16 @@ final class FitLoop implements StepView, Probe, FitControl {
     // ---- FitControl -----------------------------------------------------------------------------
 
     @Override
-    public void halt(StopReason reason, String detail) {
+    public boolean halt(StopReason reason, String detail) {
         if (reason == null) {
             throw new NullPointerException("halt reason must not be null");
         }
         if (haltReason == null) {
             haltReason = reason;
             haltDetail = detail == null ? "" : detail;
+            return true;
         }
+        return false;
     }
 
     @Override

@@ -240,7 +240,7 @@ public final class Minimizer {
         Updater updater = rule.start(objective, h0, stepsPerEpoch);
         RunInfo info = new RunInfo(n, objective.dimension(), batchSize, sampling.independentDraws(),
                 lossName(objective), penalty.name(), rule.name(), steps.name(), sampling.name(), planned, seed,
-                rule.varianceReduced());
+                rule.varianceReduced(), heldOut != null);
         long timeNanos = timeLimit == null ? -1 : timeLimit.toNanos();
         FitLoop.Settings settings = new FitLoop.Settings(updater, source, sampling, steps, averaging, batchSize,
                 maxSteps, maxDraws, maxEvaluations, timeNanos, explosionFactor, probeRng, info);

@@ -12,8 +12,9 @@ public interface FitControl {
      * Stops the fit after this listener call. The first halt of a step wins.
      *
      * @param detail a human-readable reason with its figures (e.g. "gradient norm 3.1e-7 < 1e-6")
+     * @return whether this halt is the one the fit will stop with (false if another came first)
      */
-    void halt(StopReason reason, String detail);
+    boolean halt(StopReason reason, String detail);
 
     /**
      * Multiplies every later step size by {@code factor} (cumulative: two halvings make a quarter).

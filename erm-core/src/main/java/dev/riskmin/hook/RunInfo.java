@@ -16,8 +16,9 @@ package dev.riskmin.hook;
  * @param seed            the seed of every random choice of the fit
  * @param varianceReduced whether the update rule corrects its steps with control variates (SVRG, SAGA),
  *                        so that gradient noise does not set a floor on the accuracy
+ * @param heldOut         whether the fit was given held-out data ({@link Probe#heldOutLoss()} works)
  */
 public record RunInfo(int sampleCount, int dimension, int batchSize, boolean withReplacement, String loss,
                       String penalty, String updateRule, String schedule, String sampling, long plannedSteps,
-                      long seed, boolean varianceReduced) {
+                      long seed, boolean varianceReduced, boolean heldOut) {
 }

@@ -26,9 +26,8 @@ import dev.riskmin.util.Arguments;
  * <p>Each epoch publishes an event: statistic H<sub>e</sub>, threshold H<sub>best</sub> − τ|H<sub>best</sub>|
  * (the value to beat; +∞ before the first measurement).
  *
- * <p>The fit must be given held-out data ({@code FitOptions.heldOut}); the hook reports whether it was
- * only once the fit runs, so the test refuses at its first step with an
- * {@link IllegalStateException} (the host detaches it and reports why).
+ * <p>The fit must be given held-out data ({@code FitOptions.heldOut}); without it the test refuses
+ * when the fit starts with an {@link IllegalStateException} (the host detaches it and reports why).
  */
 public final class HeldOutWorseningCriterion implements Monitor {
     /** The default number of epochs without a new best before the fit stops (this library's choice). */
@@ -43,7 +42,6 @@ public final class HeldOutWorseningCriterion implements Monitor {
     private double bestLoss;
     private int bestEpoch;
     private int sinceBest;
-    private boolean checked;
 
     private HeldOutWorseningCriterion(int allowedEpochs, double tolerance) {
         this.allowedEpochs = allowedEpochs;
@@ -77,22 +75,14 @@ public final class HeldOutWorseningCriterion implements Monitor {
 
     @Override
     public void started(RunInfo run, StepContext context) {
+        if (!run.heldOut()) {
+            throw new IllegalStateException("held-out worsening test: the fit has no held-out data; pass it"
+                    + " with FitOptions.heldOut (FitOptions.builder().heldOut(data))");
+        }
         best = new double[run.dimension()];
         bestLoss = Double.NaN;
         bestEpoch = -1;
         sinceBest = 0;
-        checked = false;
-    }
-
-    @Override
-    public void step(StepContext context) {
-        if (!checked) {
-            checked = true;
-            if (!context.view().probe().hasHeldOut()) {
-                throw new IllegalStateException("held-out worsening test: the fit has no held-out data; pass it"
-                        + " with FitOptions.heldOut (FitOptions.builder().heldOut(data))");
-            }
-        }
     }
 
     @Override

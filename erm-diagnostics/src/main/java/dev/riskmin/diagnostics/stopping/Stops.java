@@ -21,10 +21,9 @@ final class Stops {
 
     /** Halts the fit; the summary names the first test that asked. */
     static void halt(StepContext context, String test, StopReason reason, String detail) {
-        if (context.summary().stoppedBy == null) {
+        if (context.control().halt(reason, detail)) {
             context.summary().stoppedBy = test;
         }
-        context.control().halt(reason, detail);
     }
 
     static String fmt(String pattern, Object... args) {
