@@ -1,6 +1,10 @@
 package dev.riskmin.examples;
 
 import dev.riskmin.Fit;
+import dev.riskmin.FitOptions;
+import dev.riskmin.data.Dataset;
+import dev.riskmin.diagnostics.Diagnostics;
+import dev.riskmin.diagnostics.verdict.Condition;
 import dev.riskmin.Minimizer;
 import dev.riskmin.StopReason;
 import dev.riskmin.loss.Losses;
@@ -43,46 +47,84 @@ class ReadmeExampleTest {
         return model.probability(new double[] {2.0, 1.5}) - model.probability(new double[] {0.2, 0.3});
     }
 
+    private static Diagnostics readmeDiagnosticsExample(Minimizer minimizer, double[][] x, double[] y) {
+        // README-DIAGNOSTICS-BEGIN
+        Diagnostics diagnostics = Diagnostics.standard().build();
+        Fit fit = minimizer.fit(Dataset.of(x, y), FitOptions.listeners(diagnostics));
+        System.out.println(diagnostics.verdict());
+        // README-DIAGNOSTICS-END
+        assertEquals(StopReason.EPOCH_BUDGET, fit.stopReason());
+        return diagnostics;
+    }
+
+    @Test
+    void readmeDiagnosticsExampleRunsAndJudges() {
+        java.util.random.RandomGenerator rng = java.util.random.RandomGeneratorFactory.of("L64X128MixRandom").create(4);
+        double[][] x = new double[3000][3];
+        double[] y = new double[3000];
+        for (int i = 0; i < x.length; i++) {
+            for (int j = 0; j < 3; j++) {
+                x[i][j] = rng.nextGaussian();
+            }
+            y[i] = x[i][0] - 2 * x[i][1] + 0.5 * x[i][2] + 0.1 * rng.nextGaussian();
+        }
+        Minimizer minimizer = Minimizer.builder().updateRule(UpdateRule.saga()).epochs(20).build();
+        Diagnostics d = readmeDiagnosticsExample(minimizer, x, y);
+        assertEquals(Condition.CONVERGED, d.verdict().condition(), d.verdict().toString());
+    }
+
     @Test
     void readmeUsageExampleRunsAndSeparatesTheClasses() {
         assertTrue(readmeExample() > 0.5, "the example's model should rank a positive-looking point above a negative one");
     }
 
-    @Test
-    void readmeShowsExactlyThisCode() throws IOException {
+    private static List<String> marked(String marker) throws IOException {
         Path here = Path.of("src/test/java/dev/riskmin/examples/ReadmeExampleTest.java");
         List<String> code = new ArrayList<>();
         boolean inside = false;
         for (String line : Files.readAllLines(here, StandardCharsets.UTF_8)) {
-            if (line.strip().equals("// " + "README-END")) {
+            if (line.strip().equals("// " + marker + "-END")) {
                 inside = false;
             }
             if (inside) {
                 code.add(line.strip());
             }
-            if (line.strip().equals("// " + "README-BEGIN")) {
+            if (line.strip().equals("// " + marker + "-BEGIN")) {
                 inside = true;
             }
         }
+        return code;
+    }
+
+    /** The first fenced code block under the given second-level heading of README.md, stripped. */
+    private static List<String> readmeBlock(String heading) throws IOException {
         List<String> readme = new ArrayList<>();
-        boolean usage = false;
+        boolean section = false;
         boolean block = false;
         for (String line : Files.readAllLines(Path.of("../README.md"), StandardCharsets.UTF_8)) {
             if (line.startsWith("## ")) {
-                usage = line.equals("## Usage");
+                section = line.equals(heading);
             }
-            if (usage && line.startsWith("```")) {
+            if (section && line.startsWith("```")) {
                 if (block) {
                     break;
                 }
                 block = true;
                 continue;
             }
-            if (usage && block) {
+            if (section && block) {
                 readme.add(line.strip());
             }
         }
-        assertEquals(code, readme, "README's usage block and this test's example must be the same code");
+        return readme;
+    }
+
+    @Test
+    void readmeShowsExactlyThisCode() throws IOException {
+        List<String> code = marked("README");
+        assertEquals(code, readmeBlock("## Usage"), "README's usage block and this test's example must be the same code");
         assertTrue(code.size() <= 16, "the README example should stay about 15 lines, it has " + code.size());
+        assertEquals(marked("README-DIAGNOSTICS"), readmeBlock("## Knowing whether it converged"),
+                "README's diagnostics block and this test's example must be the same code");
     }
 }
