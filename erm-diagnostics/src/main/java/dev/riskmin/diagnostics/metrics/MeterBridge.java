@@ -222,12 +222,18 @@ public final class MeterBridge implements EventListener, FitListener, AutoClosea
     /**
      * Registers the bridge's meters with tags given as key, value pairs (see {@link #register(MeterRegistry, Iterable)}).
      *
-     * @throws IllegalArgumentException if the number of strings is odd, or as {@link #register(MeterRegistry, Iterable)}
+     * @throws IllegalArgumentException if the number of strings is odd or one is null, or as
+     *                                  {@link #register(MeterRegistry, Iterable)}
      */
     public static MeterBridge register(MeterRegistry registry, String... keyValues) {
         Arguments.notNull("keyValues", keyValues);
         if (keyValues.length % 2 != 0) {
             throw new IllegalArgumentException("tags (" + keyValues.length + " strings) must be key, value pairs");
+        }
+        for (int k = 0; k < keyValues.length; k++) {
+            if (keyValues[k] == null) {
+                throw new IllegalArgumentException("tags[" + k + "] is null");
+            }
         }
         return register(registry, Tags.of(keyValues));
     }
@@ -242,7 +248,10 @@ public final class MeterBridge implements EventListener, FitListener, AutoClosea
         return List.copyOf(owned);
     }
 
-    /** Removes this bridge's meters from the registry; later events are ignored. Idempotent. */
+    /**
+     * Removes this bridge's meters from the registry. Later steps and events reach no meter, and none is
+     * registered again. Idempotent.
+     */
     @Override
     public synchronized void close() {
         closed = true;

@@ -1,12 +1,15 @@
 package dev.riskmin.diagnostics.metrics;
 
-/** Keeps Micrometer's start-up DEBUG line off the test output (the tests' logback runs unconfigured, at DEBUG). */
+/**
+ * Keeps Micrometer's own log lines off the test output: its start-up DEBUG line (the tests' logback
+ * runs unconfigured, at DEBUG) and the WARN it logs when a test registers a meter twice on purpose.
+ */
 final class Quiet {
     private Quiet() {
     }
 
     static void micrometer() {
         ((ch.qos.logback.classic.Logger) org.slf4j.LoggerFactory.getLogger("io.micrometer"))
-                .setLevel(ch.qos.logback.classic.Level.INFO);
+                .setLevel(ch.qos.logback.classic.Level.ERROR);
     }
 }
