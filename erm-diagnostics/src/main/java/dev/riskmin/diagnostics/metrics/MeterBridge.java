@@ -107,14 +107,15 @@ import java.util.concurrent.atomic.AtomicLongArray;
  * counter increments; nothing is allocated on these paths once a stopping test's meters exist.
  *
  * <p><b>Failures.</b> A registry that throws while a stopping test's meters are being registered
- * throws out of {@link #onEvent}; the diagnostics host then detaches the bridge for the rest of the
- * fit and reports it, and the fit goes on unchanged. A failure while the bridge is being built
+ * throws out of {@link #onEvent}; the diagnostics host then detaches the bridge as a subscriber for
+ * the rest of the fit and reports it (its fit-listener half goes on counting), and the fit goes on
+ * unchanged. A failure while the bridge is being built
  * removes the meters registered so far and propagates to the caller.
  *
  * <p><b>Thread safety.</b> Every method may be called from any thread. Counters are exact however
  * many fits feed one bridge at once; the gauges, though, show whichever fit wrote last, so give each
  * concurrently running fit its own bridge with its own tags. Bridges with distinct tags may share a
- * registry. Two bridges with the same name and tags cannot: Micrometer would hand the second one the
+ * registry. Two bridges with the same tags cannot: Micrometer would hand the second one the
  * first one's gauges, which read the first one's state, so {@link #register} refuses a meter that is
  * already on the registry. Close a bridge to register another with its tags.
  */
