@@ -365,6 +365,9 @@ final class Chart {
             min = 0;
             max = 1;
         }
+        if (bars) {
+            max *= 1.05; // headroom, so that the tallest bar does not touch the frame
+        }
         return Scale.auto(min, max, allowLog && !bars, from, to, 5);
     }
 
