@@ -74,6 +74,11 @@ public final class Diagnostics implements FitListener {
                 .subscribe(Slf4jReporter.defaults(), EventFilter.of(EventKind.NOISE, EventKind.LOSS).every(10));
     }
 
+    /** @return the facts of the current (or last) run, or null before a fit started */
+    public RunInfo run() {
+        return run;
+    }
+
     /** @return the summary of the run so far (live: updated as the fit goes on) */
     public RunSummary summary() {
         return summary;
