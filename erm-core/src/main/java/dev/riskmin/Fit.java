@@ -31,11 +31,13 @@ public final class Fit {
     private final double stepSizeFactor;
     private final int finalBatchSize;
     private final List<String> listenerFailures;
+    private final boolean standardized;
 
     Fit(LinearModel model, MulticlassModel multiclassModel, double[] parameters, double[] lastIterate,
         boolean averaged, StopReason stopReason, String stopDetail, long steps, double epochs,
         long gradientEvaluations, long probeEvaluations, Duration wallTime, double initialObjective,
-        double finalObjective, double stepSizeFactor, int finalBatchSize, List<String> listenerFailures) {
+        double finalObjective, double stepSizeFactor, int finalBatchSize, List<String> listenerFailures,
+        boolean standardized) {
         this.model = model;
         this.multiclassModel = multiclassModel;
         this.parameters = parameters;
@@ -53,6 +55,15 @@ public final class Fit {
         this.stepSizeFactor = stepSizeFactor;
         this.finalBatchSize = finalBatchSize;
         this.listenerFailures = List.copyOf(listenerFailures);
+        this.standardized = standardized;
+    }
+
+    /**
+     * @return whether the features were standardized for the fit (the model and parameters are on the
+     * original scale either way; the objectives are on the fitted scale)
+     */
+    public boolean standardized() {
+        return standardized;
     }
 
     /**

@@ -187,7 +187,7 @@ public final class Minimizer {
             double[] w = java.util.Arrays.copyOf(params, d);
             model = LinearModel.of(w, intercept ? params[d] : 0.0, loss.response(), loss.name());
         }
-        return finish(out, model, multiclass, params, last, options);
+        return finish(out, model, multiclass, params, last, options, standardizer != null);
     }
 
     /**
@@ -210,15 +210,15 @@ public final class Minimizer {
                     + " needs strata, which a general objective does not have; choose another sampling");
         }
         FitLoop.Outcome out = run(objective, null, h0, null, options);
-        return finish(out, null, null, out.parameters(), out.lastIterate(), options);
+        return finish(out, null, null, out.parameters(), out.lastIterate(), options, false);
     }
 
     private Fit finish(FitLoop.Outcome out, LinearModel model, MulticlassModel multiclass, double[] params,
-                       double[] last, FitOptions options) {
+                       double[] last, FitOptions options, boolean standardized) {
         Fit fit = new Fit(model, multiclass, params, last, out.averaged(), out.reason(), out.detail(), out.steps(),
                 (double) out.draws() / out.sampleCount(), out.gradientEvaluations(),
                 out.probeEvaluations(), Duration.ofNanos(out.nanos()), out.initialObjective(), out.finalObjective(),
-                out.stepSizeFactor(), out.batchSize(), out.listenerFailures());
+                out.stepSizeFactor(), out.batchSize(), out.listenerFailures(), standardized);
         FitLoop.notifyFinished(options.listenerList(), fit);
         return fit;
     }
