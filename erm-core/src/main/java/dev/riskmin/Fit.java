@@ -175,6 +175,127 @@ public final class Fit {
         return listenerFailures;
     }
 
+    /**
+     * A builder for fits produced outside the in-memory fit loop (for example by a distributed
+     * driver); every figure defaults to "not measured" (NaN, 0, empty). {@link Builder#build()}
+     * checks that the parameters are finite, as every fit promises.
+     */
+    public static Builder builder(double[] parameters, StopReason stopReason) {
+        return new Builder(parameters, stopReason);
+    }
+
+    /** Collects a fit's parts; {@link #build()} returns an immutable {@link Fit}. */
+    public static final class Builder {
+        private final double[] parameters;
+        private final StopReason stopReason;
+        private double[] lastIterate;
+        private LinearModel model;
+        private MulticlassModel multiclassModel;
+        private boolean averaged;
+        private String stopDetail = "";
+        private long steps;
+        private double epochs;
+        private long gradientEvaluations;
+        private long probeEvaluations;
+        private Duration wallTime = Duration.ZERO;
+        private double initialObjective = Double.NaN;
+        private double finalObjective = Double.NaN;
+        private double stepSizeFactor = 1.0;
+        private int finalBatchSize;
+        private List<String> listenerFailures = List.of();
+        private boolean standardized;
+
+        private Builder(double[] parameters, StopReason stopReason) {
+            if (parameters == null || stopReason == null) {
+                throw new NullPointerException("parameters and stop reason must not be null");
+            }
+            for (int j = 0; j < parameters.length; j++) {
+                if (!Double.isFinite(parameters[j])) {
+                    throw new IllegalArgumentException("parameters[" + j + "] is " + parameters[j]
+                            + ": a fit never returns non-finite parameters");
+                }
+            }
+            this.parameters = parameters.clone();
+            this.stopReason = stopReason;
+        }
+
+        public Builder lastIterate(double[] value) {
+            this.lastIterate = value.clone();
+            return this;
+        }
+
+        public Builder model(LinearModel value) {
+            this.model = value;
+            return this;
+        }
+
+        public Builder multiclassModel(MulticlassModel value) {
+            this.multiclassModel = value;
+            return this;
+        }
+
+        public Builder averaged(boolean value) {
+            this.averaged = value;
+            return this;
+        }
+
+        public Builder stopDetail(String value) {
+            this.stopDetail = value == null ? "" : value;
+            return this;
+        }
+
+        public Builder counts(long stepCount, double epochCount, long evaluations, long probeCount) {
+            this.steps = stepCount;
+            this.epochs = epochCount;
+            this.gradientEvaluations = evaluations;
+            this.probeEvaluations = probeCount;
+            return this;
+        }
+
+        public Builder wallTime(Duration value) {
+            this.wallTime = value;
+            return this;
+        }
+
+        public Builder objectives(double initial, double last) {
+            this.initialObjective = initial;
+            this.finalObjective = last;
+            return this;
+        }
+
+        public Builder stepSizeFactor(double value) {
+            this.stepSizeFactor = value;
+            return this;
+        }
+
+        public Builder finalBatchSize(int value) {
+            this.finalBatchSize = value;
+            return this;
+        }
+
+        public Builder listenerFailures(List<String> value) {
+            this.listenerFailures = List.copyOf(value);
+            return this;
+        }
+
+        public Builder standardized(boolean value) {
+            this.standardized = value;
+            return this;
+        }
+
+        public Fit build() {
+            double[] last = lastIterate != null ? lastIterate : parameters;
+            for (int j = 0; j < last.length; j++) {
+                if (!Double.isFinite(last[j])) {
+                    throw new IllegalArgumentException("lastIterate[" + j + "] is " + last[j]);
+                }
+            }
+            return new Fit(model, multiclassModel, parameters.clone(), last.clone(), averaged, stopReason, stopDetail,
+                    steps, epochs, gradientEvaluations, probeEvaluations, wallTime, initialObjective, finalObjective,
+                    stepSizeFactor, finalBatchSize, listenerFailures, standardized);
+        }
+    }
+
     @Override
     public String toString() {
         return "Fit[" + stopReason + (stopDetail.isEmpty() ? "" : " (" + stopDetail + ")") + ", steps=" + steps
