@@ -894,6 +894,10 @@ public final class FitCommand implements Callable<Integer> {
         }
         out.println("verdict: " + verdict.condition() + " — " + verdict.summary());
         out.println("advice: " + verdict.advice());
+        if (verdict.condition() == Condition.UNDETERMINED) {
+            out.println("hint: a longer budget (--epochs) or a larger --measurement-share lets the diagnostics"
+                    + " measure the objective's trend");
+        }
         out.println("model:  " + (model != null ? model : diverged ? "not written (the fit diverged)" : "not written"));
         out.println("trace:  " + trace);
         out.println("report: " + report);
