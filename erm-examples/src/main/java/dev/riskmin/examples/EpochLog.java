@@ -22,7 +22,7 @@ import java.util.Locale;
  * Logs one readable line per epoch of a fit through SLF4J (logger {@value #LOGGER}, INFO), built
  * from the latest figures the diagnostics published before the epoch ended, for example
  * <pre>
- * [late deliveries] epoch 3/12: batch loss ≈ 0.1339, objective 0.1329, gradient norm 0.0312,
+ * [minutes] epoch 3/12: batch loss ≈ 0.1339, objective 0.1329, gradient norm 0.0312,
  *     held-out loss 0.1404, step size 0.09635, batch 64, noise scale 40.65
  * </pre>
  * (one line in the log) and a last line when the fit finishes (stop reason, steps, epochs, objective, wall time).
@@ -32,13 +32,14 @@ import java.util.Locale;
  * measured them since the previous line (at its cadences); the noise scale
  * B<sub>simple</sub> = tr Σ/‖G‖² (McCandlish et al., arXiv:1812.06162, 2018) and the running mean of
  * the descent cosine cos φ = ⟨g<sub>B</sub>, G⟩/(‖g<sub>B</sub>‖ ‖G‖) are the noise and angle monitors'
- * latest. A figure not measured is left out. Under SVRG or SAGA a very large noise scale late in a
- * fit only says that ‖G‖ has become small: those rules' steps carry no noise floor.
+ * latest. A figure not measured is left out. The noise scale is left out under SVRG and SAGA: their
+ * steps carry no noise floor, and a large noise scale there only says that ‖G‖ has become small
+ * (the verdict ignores it for them too).
  *
  * <p>Wiring: the log is two listeners in one. Subscribe it to the fit's diagnostics with
  * {@link #events()} and pass it with the fit's listeners, after the diagnostics:
  * <pre>{@code
- * EpochLog log = EpochLog.labelled("late deliveries");
+ * EpochLog log = EpochLog.labelled("minutes");
  * Diagnostics diagnostics = Diagnostics.builder()...subscribe(log, EpochLog.events()).build();
  * minimizer.fit(data, FitOptions.builder().listener(diagnostics).listener(log).build());
  * }</pre>
@@ -59,6 +60,7 @@ public final class EpochLog implements FitListener, EventListener {
     private final int maxLines;
 
     private int sampleCount;
+    private boolean showNoise;
     private double plannedEpochs;
     private long every;
     private double smoothedLoss;
@@ -96,6 +98,7 @@ public final class EpochLog implements FitListener, EventListener {
     @Override
     public void started(RunInfo run) {
         sampleCount = run.sampleCount();
+        showNoise = !run.varianceReduced();
         plannedEpochs = run.plannedSteps() >= 0
                 ? (double) run.plannedSteps() * run.batchSize() / run.sampleCount() : Double.NaN;
         every = Double.isNaN(plannedEpochs) ? 1 : Math.max(1, (long) Math.ceil(plannedEpochs / maxLines));
@@ -148,7 +151,9 @@ public final class EpochLog implements FitListener, EventListener {
             add(b, "held-out loss ", heldOut);
             add(b, "step size ", view.stepSize());
             b.append(", batch ").append(batchSize);
-            add(b, "noise scale ", noiseScale);
+            if (showNoise) {
+                add(b, "noise scale ", noiseScale);
+            }
             add(b, "mean descent cosine ", meanCosine);
             b.deleteCharAt(mark);
             logger.info(b.toString());
