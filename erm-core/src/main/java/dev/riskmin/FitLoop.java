@@ -496,6 +496,16 @@ final class FitLoop implements StepView, Probe, FitControl {
     }
 
     @Override
+    public double rowLoss(int i) {
+        if (i < 0 || i >= n) {
+            throw new IndexOutOfBoundsException("row (" + i + ") must be in [0, " + n + ")");
+        }
+        freshParameters();
+        probeEvaluations++;
+        return objective.sampleLoss(h, i);
+    }
+
+    @Override
     public boolean hasHeldOut() {
         return heldOut != null;
     }

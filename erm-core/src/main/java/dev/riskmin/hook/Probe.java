@@ -48,6 +48,16 @@ public interface Probe {
      */
     double heldOutLoss();
 
+    /**
+     * @return ω<sub>i</sub> ℓ<sub>i</sub>(h<sub>t</sub>), the weighted data loss of sample i at the current
+     * parameters (one loss evaluation) — for paired comparisons on a fixed subsample
+     * @throws IllegalStateException where the fit cannot evaluate single samples (the default)
+     * @throws IndexOutOfBoundsException if i is not in [0, n)
+     */
+    default double rowLoss(int i) {
+        throw new IllegalStateException("this fit's probe cannot evaluate single samples");
+    }
+
     /** @return the probe's gradient evaluations so far in this fit */
     long evaluations();
 }

@@ -55,9 +55,10 @@ import java.util.Arrays;
  * about once per 100 epochs: short fits see the exact objective only through the fit's own final
  * objective (below) unless a cadence such as {@code Cadence.every(k)} is set.
  *
- * <p>Until two exact objectives are measured, the trend comes from the smoothed batch loss an
- * epoch apart, with its standard error (see {@code batchLossTrend}), so a short fit still gets a
- * trend the verdict can weigh.
+ * <p>Unless two exact objectives were measured close together, the trend comes from paired losses
+ * on a fixed subsample at the last two epoch ends, with its standard error (see {@code pairedTrend}),
+ * so a short fit still gets a trend the verdict can weigh. The exact objective is always measured at the first step (the
+ * baseline), when its cadence is active.
  *
  * <p>When the fit ends with its last iterate (no averaging, no restored parameters), the fit's
  * final objective ({@link Fit#finalObjective()}, computed by the fit anyway) is recorded as a last
@@ -75,6 +76,12 @@ public final class LossMonitor implements Monitor {
     public static final int DEFAULT_SHARE_PERCENT = 1;
     /** The number of objective measurements kept for the relative decrease. */
     public static final int HISTORY = 256;
+    /** The smallest paired subsample. */
+    public static final int MIN_SUBSAMPLE = 64;
+    /** The paired subsample holds n / this many rows (at least {@link #MIN_SUBSAMPLE}). */
+    public static final int SUBSAMPLE_DIVISOR = 50;
+    /** Exact measurements at most this many windows apart give the recent trend. */
+    public static final int RECENT_WINDOWS = 4;
     private static final int REPORTS_PER_EPOCH = 20;
     private static final int UNKNOWN = 0;
     private static final int EXACT = 1;
@@ -99,8 +106,13 @@ public final class LossMonitor implements Monitor {
     private long ascents;
     private double mean = Double.NaN;
     private double variance = Double.NaN;
-    private double snapshotMean = Double.NaN;
-    private double snapshotVariance = Double.NaN;
+    private int[] subsample = new int[0];
+    private double[] previousLosses = new double[0];
+    private double[] currentLosses = new double[0];
+    private boolean havePrevious;
+    private boolean subsampleAvailable;
+    private long lastExactTrendStep = Long.MIN_VALUE;
+    private long pairSpacing = 1;
     private final long[] historyStep = new long[HISTORY];
     private final double[] historyValue = new double[HISTORY];
     private int historySize;
@@ -193,8 +205,18 @@ public final class LossMonitor implements Monitor {
         variance = Double.NaN;
         historySize = 0;
         historyNext = 0;
-        snapshotMean = Double.NaN;
-        snapshotVariance = Double.NaN;
+        int m = Math.min(n, Math.max(MIN_SUBSAMPLE, n / SUBSAMPLE_DIVISOR));
+        subsample = new int[m];
+        for (int k = 0; k < m; k++) {
+            subsample[k] = (int) ((long) k * n / m); // evenly spaced: deterministic, no generator needed
+        }
+        previousLosses = new double[m];
+        currentLosses = new double[m];
+        // Measure the subsample every k windows so that it costs at most about 1 % of the epochs.
+        pairSpacing = Math.max(1, (m * 100L + n - 1) / n);
+        havePrevious = false;
+        subsampleAvailable = true;
+        lastExactTrendStep = Long.MIN_VALUE;
         objective = Double.NaN;
         heldOut = Double.NaN;
         gradientNorm = Double.NaN;
@@ -227,17 +249,17 @@ public final class LossMonitor implements Monitor {
         }
         seen++;
         summary.lossOscillation = Math.sqrt(variance) / Math.abs(mean);
-        if (t > 0 && t % window == 0) {
-            batchLossTrend(summary);
-            snapshotMean = mean;
-            snapshotVariance = variance;
+        if (subsampleAvailable && objectiveCadence.active() && t % (window * pairSpacing) == 0) {
+            pairedTrend(v, summary);
         }
         long spent = v.gradientEvaluations();
         double measuredObjective = Double.NaN;
         double measuredNorm = Double.NaN;
         double measuredHeldOut = Double.NaN;
         boolean measured = false;
-        if (objectivePacer.due(t, spent)) {
+        // The first step is always measured when the cadence is active: it is the baseline that the
+        // verdict's gradient-norm ratio and the trend compare against.
+        if (objectiveCadence.active() && (t == 0 || objectivePacer.due(t, spent))) {
             measureObjective(context, v, summary);
             measuredObjective = objective;
             measuredNorm = reference == EXACT ? gradientNorm : Double.NaN;
@@ -296,33 +318,76 @@ public final class LossMonitor implements Monitor {
         summary.bestObjective = Double.isNaN(summary.bestObjective) ? value : Math.min(summary.bestObjective, value);
         if (historySize >= 2) {
             double previous = Double.NaN;
+            long previousStep = step;
             for (int k = 2; k <= historySize; k++) {
                 int at = Math.floorMod(historyNext - k, HISTORY);
                 previous = historyValue[at];
+                previousStep = historyStep[at];
                 if (historyStep[at] <= step - window) {
                     break;
                 }
             }
             summary.previousObjective = previous;
-            summary.recentRelativeDecrease = (previous - value) / Math.abs(previous);
+            // Two exact measurements far apart (more than a few windows) say little about the recent
+            // trend: then the paired subsample trend stands.
+            if (step - previousStep <= RECENT_WINDOWS * window) {
+                summary.recentRelativeDecrease = (previous - value) / Math.abs(previous);
+                summary.recentDecreaseError = 0.0;
+                lastExactTrendStep = step;
+            }
         }
     }
 
     /**
-     * Without two exact objective measurements, the trend comes from the smoothed batch loss one
-     * window (an epoch) apart: decrease (m<sub>prev</sub> − m)/|m<sub>prev</sub>| with standard error
-     * √(se<sub>prev</sub>² + se²)/|m<sub>prev</sub>|, se² = v α/(2 − α), the variance of an exponential
-     * moving average of independent values of variance v (standard EWMA result, from memory). It
-     * covers the data term only (no penalty) and is noisy, which the error carries to the verdict.
+     * The trend between two window ends (an epoch, ⌈n/B⌉ steps, apart) from paired losses on a fixed
+     * subsample S of m = min(n, max({@value #MIN_SUBSAMPLE}, n/{@value #SUBSAMPLE_DIVISOR})) evenly
+     * spaced rows: with d<sub>i</sub> = ℓ<sub>i</sub>(h<sub>prev</sub>) − ℓ<sub>i</sub>(h) for i in S,
+     * the relative decrease d̄/|ℓ̄<sub>prev</sub>| with standard error sd(d)/(√m |ℓ̄<sub>prev</sub>|). Pairing
+     * removes the rows' own spread, so a flat objective shows a decrease near zero with a small error
+     * (the paired-difference design; common practice, no source). It covers the data term only. The
+     * pair is k = ⌈100 m/n⌉ windows apart, so it costs m loss evaluations per k epochs (about 1 %), and
+     * the decrease and its error are reported per window (divided by k). It runs only while the
+     * objective cadence is active. An exact objective trend measured within the last k windows takes
+     * precedence.
      */
-    private void batchLossTrend(RunSummary summary) {
-        if (historySize >= 2 || Double.isNaN(snapshotMean) || snapshotMean == 0) {
+    private void pairedTrend(StepView v, RunSummary summary) {
+        Probe probe = v.probe();
+        int m = subsample.length;
+        try {
+            for (int k = 0; k < m; k++) {
+                currentLosses[k] = probe.rowLoss(subsample[k]);
+            }
+        } catch (IllegalStateException unavailable) {
+            subsampleAvailable = false; // a probe without single-sample losses: no paired trend
             return;
         }
-        double factor = smoothing / (2.0 - smoothing);
-        double error = Math.sqrt((snapshotVariance + variance) * factor) / Math.abs(snapshotMean);
-        summary.recentRelativeDecrease = (snapshotMean - mean) / Math.abs(snapshotMean);
-        summary.recentDecreaseError = error;
+        boolean exactIsRecent = lastExactTrendStep != Long.MIN_VALUE
+                && v.step() - lastExactTrendStep <= window * pairSpacing;
+        if (havePrevious && !exactIsRecent) {
+            double meanPrevious = 0;
+            double meanDiff = 0;
+            for (int k = 0; k < m; k++) {
+                meanPrevious += previousLosses[k];
+                meanDiff += previousLosses[k] - currentLosses[k];
+            }
+            meanPrevious /= m;
+            meanDiff /= m;
+            double ss = 0;
+            for (int k = 0; k < m; k++) {
+                double e = previousLosses[k] - currentLosses[k] - meanDiff;
+                ss += e * e;
+            }
+            double scale = Math.abs(meanPrevious);
+            if (scale > 0 && m > 1) {
+                // Per window: the pair is pairSpacing windows apart.
+                summary.recentRelativeDecrease = meanDiff / scale / pairSpacing;
+                summary.recentDecreaseError = Math.sqrt(ss / (m - 1) / m) / scale / pairSpacing;
+            }
+        }
+        double[] swap = previousLosses;
+        previousLosses = currentLosses;
+        currentLosses = swap;
+        havePrevious = true;
     }
 
     /** Records the fit's own final objective when it is that of the last iterate. */
@@ -333,7 +398,7 @@ public final class LossMonitor implements Monitor {
             record(fit.steps(), value, context.summary());
             objective = value;
         }
-        batchLossTrend(context.summary());
+
     }
 
     /** @return the smoothed batch loss m (NaN before the first step) */

@@ -33,7 +33,8 @@ import java.util.Map;
  * overshoot the minimum (derived). Advice: ε/max(2, −4c), which brings the
  * estimate ελ ≈ −2c down to about 1/2 and is at least a halving (derived; halving alone suffices on a
  * quadratic that did not diverge, where ελ &lt; 2). On the ascent evidence alone: halve the step.</li>
- * <li><b>NOISE_DOMINATED</b> — the objective's trend was measured and it no longer falls, while the
+ * <li><b>NOISE_DOMINATED</b> — the objective's trend was measured and it does not demonstrably fall
+ * (the decrease is within {@value #SIGNIFICANCE} standard errors of the tolerance), while the
  * batch the noise asks for, B<sub>*</sub>, exceeds {@value #NOISE_FACTOR} B. B<sub>*</sub> is the batch at
  * which the batch-mean gradient's variance equals ‖G‖²: B<sub>s</sub> with replacement, and
  * B<sub>s</sub> n/(n + B<sub>s</sub>) without (solving (1 − B/n) tr S²/B = ‖G‖², METHODS §1, derived).
@@ -45,12 +46,13 @@ import java.util.Map;
  * Nocedal, SIAM Review 60(2), 2018, Thm 4.6 with M divided by B), or a variance-reduced rule. Never
  * for a variance-reduced rule (SVRG, SAGA): its steps' variance vanishes at the optimum, so a large
  * noise scale there only says that ‖G‖ is small.</li>
- * <li><b>STILL_DESCENDING</b> — the objective fell by more than {@value #STILL_FALLING} (relative) over
- * the last measurement window, and by more than {@value #SIGNIFICANCE} standard errors when the error
- * is known. Advice: double the budget (epochs and steps given).</li>
- * <li><b>CONVERGED</b> — otherwise, when the objective was measured and no longer falls.</li>
- * <li><b>UNDETERMINED</b> — nothing was measured that could show convergence; the advice is to
- * measure the trend.</li>
+ * <li><b>STILL_DESCENDING</b> — over the last measurement window the objective fell by more than
+ * {@value #STILL_FALLING} (relative) plus {@value #SIGNIFICANCE} standard errors of the decrease (when
+ * the error is known). Advice: double the budget (epochs and steps given).</li>
+ * <li><b>CONVERGED</b> — the decrease plus {@value #SIGNIFICANCE} standard errors stays within
+ * {@value #STILL_FALLING}: the objective is measured and demonstrably flat.</li>
+ * <li><b>UNDETERMINED</b> — nothing was measured that could show convergence, or the trend is too
+ * noisy to tell falling from flat; the advice is to measure the objective more often.</li>
  * </ol>
  * The thresholds are this library's choices (common practice, no source). Numbers in the texts have
  * three significant digits and use {@link Locale#ROOT}.
@@ -152,16 +154,20 @@ public final class VerdictRules {
         }
 
         double r = s.recentRelativeDecrease;
-        double bar = Double.isFinite(s.recentDecreaseError)
-                ? Math.max(STILL_FALLING, SIGNIFICANCE * s.recentDecreaseError) : STILL_FALLING;
-        boolean falling = r > bar;
-        boolean stalled = Double.isFinite(r) && !falling;
+        double error = Double.isFinite(s.recentDecreaseError) ? s.recentDecreaseError : 0.0;
+        // Falling: the decrease exceeds the tolerance by more than its noise. Flat: even the decrease's
+        // upper bound stays within the tolerance. Between the two the trend is too noisy to judge.
+        boolean falling = Double.isFinite(r) && r - SIGNIFICANCE * error > STILL_FALLING;
+        boolean stalled = Double.isFinite(r) && r + SIGNIFICANCE * error <= STILL_FALLING;
+        boolean noisyTrend = Double.isFinite(r) && !falling && !stalled;
         String window = Double.isFinite(r)
                 ? fmt("%s%%%s over the last window", sig(100 * r),
                 Double.isFinite(s.recentDecreaseError) ? " ± " + sig(100 * s.recentDecreaseError) + "%" : "")
                 : "not measured";
 
-        if (noiseKnown && stalled && needed > NOISE_FACTOR * s.batchSize && !s.varianceReduced) {
+        // Noise makes a trend noisy itself: here "not demonstrably falling" is enough.
+        boolean notFalling = Double.isFinite(r) && !falling;
+        if (noiseKnown && notFalling && needed > NOISE_FACTOR * s.batchSize && !s.varianceReduced) {
             long batch = (long) Math.ceil(needed);
             figures.put("suggestedBatchSize", (double) batch);
             double noiseToSignal = noiseScale / s.batchSize
@@ -209,6 +215,15 @@ public final class VerdictRules {
                     fmt("the objective no longer falls (%s), latest objective %s%s; %s after %d steps.", window,
                             sig(s.latestObjective), gradient, stopped, s.steps),
                     "nothing for the optimizer; validate the model on held-out data", figures);
+        }
+        if (noisyTrend) {
+            return new HealthVerdict(Condition.UNDETERMINED,
+                    fmt("the objective's trend is too noisy to judge (%s): it neither clearly falls nor clearly"
+                            + " stays within %s%%%s; %s after %d steps (%s epochs).", window,
+                            sig(100 * STILL_FALLING), gradient, stopped, s.steps, sig(s.epochs)),
+                    "measure the exact objective more often (a loss monitor with a cadence, e.g."
+                            + " Cadence.every(k)) or run longer; validate the model on held-out data",
+                    figures);
         }
         return new HealthVerdict(Condition.UNDETERMINED,
                 fmt("no objective trend was measured, so convergence cannot be judged%s; %s after %d steps (%s"

@@ -61,7 +61,9 @@ class CadenceTest {
         check(angle, 0.01);
         assertEquals(2, angle.probes()); // 1 % of 400,000 pays for two full gradients
         LossMonitor loss = LossMonitor.defaults();
-        check(loss, 0.02);
+        // 1 % for the exact objective, about 1 % for the paired subsample trend (64 rows every 4
+        // epochs), and the step-0 baseline (one full gradient, 0.5 % here).
+        check(loss, 0.03);
         assertEquals(2, loss.objectiveMeasurements());
         assertEquals(400_000, fitEvaluations);
     }

@@ -183,11 +183,13 @@ class VerdictRulesTest {
     }
 
     @Test
-    void aDecreaseWithinTwiceItsStandardErrorDoesNotCountAsFalling() {
+    void aDecreaseWithinTwiceItsStandardErrorIsTooNoisyToJudge() {
         RunSummary s = base();
         s.recentRelativeDecrease = 0.01;
-        s.recentDecreaseError = 0.006; // bar 0.012
-        assertEquals(Condition.CONVERGED, VerdictRules.judge(s).condition());
+        s.recentDecreaseError = 0.006; // neither 0.01 - 0.012 > 0.001 nor 0.01 + 0.012 <= 0.001
+        HealthVerdict noisy = VerdictRules.judge(s);
+        assertEquals(Condition.UNDETERMINED, noisy.condition());
+        assertTrue(noisy.summary().contains("too noisy"), noisy.summary());
         s.recentDecreaseError = 0.004; // bar 0.008
         HealthVerdict v = VerdictRules.judge(s);
         assertEquals(Condition.STILL_DESCENDING, v.condition());
