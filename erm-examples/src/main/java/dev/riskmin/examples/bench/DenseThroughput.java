@@ -1,0 +1,75 @@
+package dev.riskmin.examples.bench;
+
+import dev.riskmin.FitOptions;
+import dev.riskmin.Minimizer;
+import dev.riskmin.data.Dataset;
+import dev.riskmin.loss.Losses;
+import dev.riskmin.method.UpdateRule;
+import dev.riskmin.sampling.Sampling;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+
+/**
+ * Figure 1: dense epoch throughput. One array of standard-normal features (the configured size) is
+ * viewed as n × d for d = 10, 100, 1000; plain SGD on the logistic loss, no penalty, sequential
+ * sampling (so the figure is the step's arithmetic and memory traffic, not the sampler's: figure 2
+ * measures that), batch 1 and 256. Throughput = n·d·8 bytes / median epoch time (epochs 2 onwards,
+ * from {@link EpochClock}); the baseline is a four-way summing pass over the same array (median of
+ * several, timed around each fit). Ratio = epoch throughput / read throughput; target ≥ 0.5 for
+ * d ≥ 100.
+ */
+final class DenseThroughput {
+    private static final int[] DIMENSIONS = {10, 100, 1000};
+    private static final int[] BATCHES = {1, 256};
+    private static final Target TARGET = Target.atLeast(0.5);
+
+    private DenseThroughput() {
+    }
+
+    static List<ResultRow> run(BenchSettings s) {
+        int entries = s.denseEntries();
+        double[] x = SyntheticData.gaussian(entries, 1);
+        int epochs = s.quick() ? 2 : 4;
+        List<ResultRow> rows = new ArrayList<>();
+        double bytes = (double) entries * Double.BYTES;
+        for (int d : DIMENSIONS) {
+            int n = entries / d;
+            Dataset data = SyntheticData.denseLabels(x, n, d, d);
+            for (int b : BATCHES) {
+                double[] reads = new double[2 * s.repetitions()];
+                double[] epochTimes = new double[s.repetitions()];
+                for (int r = 0; r < s.repetitions(); r++) {
+                    reads[2 * r] = Timing.medianNanos(3, () -> Timing.sequentialRead(x, entries));
+                    Minimizer m = Minimizer.builder()
+                            .loss(Losses.logistic())
+                            .updateRule(UpdateRule.sgd())
+                            .sampling(Sampling.sequential())
+                            .batchSize(b)
+                            // half of 1/L, L = ¼(‖x‖² + 1) ≈ ¼(d + 1): stable, and given so that no default-step pass runs
+                            .stepSize(2.0 / (d + 1))
+                            .epochs(epochs)
+                            .seed(r)
+                            .build();
+                    EpochClock clock = new EpochClock(epochs);
+                    m.fit(data, FitOptions.listeners(clock));
+                    epochTimes[r] = clock.medianEpochNanos(1);
+                    reads[2 * r + 1] = Timing.medianNanos(3, () -> Timing.sequentialRead(x, entries));
+                }
+                double epoch = Timing.median(epochTimes);
+                double read = Timing.median(reads);
+                double ratio = read / epoch;
+                Timing.log("[1] d=%d B=%d n=%d: epoch %s (%s), read %s (%s), ratio %.3f", d, b, n,
+                        Timing.duration(epoch), Timing.rate(bytes, epoch), Timing.duration(read),
+                        Timing.rate(bytes, read), ratio);
+                rows.add(new ResultRow(String.format(Locale.ROOT, "1 dense epoch d=%d B=%d", d, b),
+                        "epoch " + Timing.rate(bytes, epoch) + " (" + Timing.duration(epoch) + ")",
+                        "read " + Timing.rate(bytes, read) + " (" + Timing.duration(read) + ")",
+                        ratio, d >= 100 ? TARGET : null,
+                        String.format(Locale.ROOT, "%d MB, n=%d", entries / 125_000, n)));
+            }
+        }
+        return rows;
+    }
+}
