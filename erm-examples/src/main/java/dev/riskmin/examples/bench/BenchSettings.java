@@ -106,6 +106,6 @@ public record BenchSettings(int sizeMb, List<String> figures, boolean quick, Str
 
     /** @return how many times a timed case is repeated (the median is reported) */
     public int repetitions() {
-        return quick ? 1 : 3;
+        return quick ? 1 : 5;
     }
 }

@@ -17,8 +17,8 @@ import java.util.Locale;
  * sampling (so the figure is the step's arithmetic and memory traffic, not the sampler's: figure 2
  * measures that), batch 1 and 256. Throughput = n·d·8 bytes / median epoch time (epochs 2 onwards,
  * from {@link EpochClock}); the baseline is a four-way summing pass over the same array (median of
- * several, timed around each fit). Ratio = epoch throughput / read throughput; target ≥ 0.5 for
- * d ≥ 100.
+ * three just before and three just after each fit). Ratio = epoch throughput / read throughput, the
+ * median over repetitions of the ratio within each; target ≥ 0.5 for d ≥ 100.
  */
 final class DenseThroughput {
     private static final int[] DIMENSIONS = {10, 100, 1000};
@@ -38,10 +38,11 @@ final class DenseThroughput {
             int n = entries / d;
             Dataset data = SyntheticData.denseLabels(x, n, d, d);
             for (int b : BATCHES) {
-                double[] reads = new double[2 * s.repetitions()];
+                double[] reads = new double[s.repetitions()];
                 double[] epochTimes = new double[s.repetitions()];
+                double[] ratios = new double[s.repetitions()];
                 for (int r = 0; r < s.repetitions(); r++) {
-                    reads[2 * r] = Timing.medianNanos(3, () -> Timing.sequentialRead(x, entries));
+                    double before = Timing.medianNanos(3, () -> Timing.sequentialRead(x, entries));
                     Minimizer m = Minimizer.builder()
                             .loss(Losses.logistic())
                             .updateRule(UpdateRule.sgd())
@@ -55,11 +56,15 @@ final class DenseThroughput {
                     EpochClock clock = new EpochClock(epochs);
                     m.fit(data, FitOptions.listeners(clock));
                     epochTimes[r] = clock.medianEpochNanos(1);
-                    reads[2 * r + 1] = Timing.medianNanos(3, () -> Timing.sequentialRead(x, entries));
+                    double after = Timing.medianNanos(3, () -> Timing.sequentialRead(x, entries));
+                    reads[r] = 0.5 * (before + after);
+                    ratios[r] = reads[r] / epochTimes[r];
                 }
                 double epoch = Timing.median(epochTimes);
                 double read = Timing.median(reads);
-                double ratio = read / epoch;
+                // The median of per-repetition ratios: each pairs a fit with the reads just around it,
+                // so a burst of load from other processes moves both sides of one ratio.
+                double ratio = Timing.median(ratios);
                 Timing.log("[1] d=%d B=%d n=%d: epoch %s (%s), read %s (%s), ratio %.3f", d, b, n,
                         Timing.duration(epoch), Timing.rate(bytes, epoch), Timing.duration(read),
                         Timing.rate(bytes, read), ratio);

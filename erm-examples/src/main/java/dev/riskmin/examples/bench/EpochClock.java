@@ -4,8 +4,6 @@ import dev.riskmin.hook.FitControl;
 import dev.riskmin.hook.FitListener;
 import dev.riskmin.hook.StepView;
 
-import java.util.Arrays;
-
 /**
  * A listener that notes the fit's elapsed time at each epoch end, so an epoch's time excludes the
  * fit's set-up (step-size default, tables) and its closing full objective. It reads nothing else, so
@@ -38,6 +36,15 @@ public final class EpochClock implements FitListener {
      * @throws IllegalStateException if no epoch remains
      */
     public double medianEpochNanos(int skip) {
+        return Timing.median(epochNanos(skip));
+    }
+
+    /**
+     * @param skip how many first epochs to leave out
+     * @return the times of the remaining epochs, in nanoseconds
+     * @throws IllegalStateException if no epoch remains
+     */
+    public double[] epochNanos(int skip) {
         int m = count - skip;
         if (m < 1 || skip < 1) {
             throw new IllegalStateException("epochs recorded (" + count + ") leave none after skipping " + skip);
@@ -46,6 +53,6 @@ public final class EpochClock implements FitListener {
         for (int e = skip; e < count; e++) {
             times[e - skip] = ends[e] - ends[e - 1];
         }
-        return Timing.median(times);
+        return times;
     }
 }

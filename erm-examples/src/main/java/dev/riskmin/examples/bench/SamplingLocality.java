@@ -18,7 +18,8 @@ import java.util.Locale;
  * dense features of figure 1 viewed as n × 100 (the target case) and n × 10 (reported for
  * information: an 80-byte row is one or two cache lines, so each step waits on memory). The median
  * epoch time (epochs 2 onwards) under a sampler is divided by that under sequential sampling, the
- * two fits alternating so that both see the same machine load. Target ≤ 1.5.
+ * two fits alternating so that both see the same machine load; the figure is the median of these
+ * paired ratios. Target ≤ 1.5.
  *
  * <p>The block-shuffled sampler is looked up by reflection ({@link #blockShuffled()}) because it is
  * being added on another branch; once it is merged, call {@code Sampling.blockShuffled()} directly.
@@ -79,7 +80,7 @@ final class SamplingLocality {
             }
             double seq = Timing.median(sequential);
             double rnd = Timing.median(shuffled);
-            double ratio = rnd / seq;
+            double ratio = Timing.pairedRatio(shuffled, sequential);
             Timing.log("[2] d=%d n=%d: %s epoch %s, sequential %s, ratio %.3f", d, n, label, Timing.duration(rnd),
                     Timing.duration(seq), ratio);
             rows.add(new ResultRow(String.format(Locale.ROOT, "2 %s / sequential d=%d B=1",

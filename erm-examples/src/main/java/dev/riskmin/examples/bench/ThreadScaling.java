@@ -76,7 +76,7 @@ final class ThreadScaling {
             }
             double a = Timing.median(t1);
             double c = Timing.median(t2);
-            double ratio = a / c;
+            double ratio = Timing.pairedRatio(t1, t2);
             Timing.log("[7] B=%d: 1 thread %s, 2 threads %s, speed-up %.2f, identical %s", b, Timing.duration(a),
                     Timing.duration(c), ratio, identical);
             // A run-to-run difference fails the row whatever the speed-up: report it as ratio 0.

@@ -23,6 +23,22 @@ public final class Timing {
         return v.length % 2 == 1 ? v[m] : 0.5 * (v[m - 1] + v[m]);
     }
 
+    /**
+     * The median of the ratios a[r]/b[r] of runs made one after the other: a burst of load from
+     * other processes then tends to move both sides of one ratio, which the ratio of two medians
+     * would not undo.
+     */
+    public static double pairedRatio(double[] a, double[] b) {
+        if (a.length != b.length) {
+            throw new IllegalArgumentException("paired timings differ in length: " + a.length + " and " + b.length);
+        }
+        double[] r = new double[a.length];
+        for (int k = 0; k < a.length; k++) {
+            r[k] = a[k] / b[k];
+        }
+        return median(r);
+    }
+
     /** @return the median of {@code reps} runs of the timed action (each returns nanoseconds) */
     public static double medianNanos(int reps, LongSupplier timed) {
         double[] t = new double[reps];
