@@ -42,7 +42,7 @@ final class DiagnosticsOverhead {
         double[] x = SyntheticData.gaussian(entries, 5);
         Dataset data = SyntheticData.denseLabels(x, n, D, 5);
         int epochs = s.quick() ? 1 : 3;
-        int reps = s.quick() ? 1 : 7;
+        int reps = s.quick() ? 1 : 9;
         List<ResultRow> rows = new ArrayList<>();
         for (int b : BATCHES) {
             Minimizer m = Minimizer.builder()
