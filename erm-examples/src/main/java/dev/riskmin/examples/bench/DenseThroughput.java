@@ -66,14 +66,14 @@ final class DenseThroughput {
                     .updateRule(UpdateRule.sgd())
                     .sampling(Sampling.sequential())
                     .batchSize(b)
-                    // half of 1/L, L ≈ ¼(‖x‖² + 1) ≈ ¼(d + 1) for the logistic loss: stable, and given so
-                    // that no default-step pass runs (a quarter of 1/L for the squared loss)
-                    .stepSize(2.0 / (d + 1))
+                    // half of 1/L with L = sup ℓ'' · (‖x‖² + 1) ≈ sup ℓ'' · (d + 1): stable, and given so
+                    // that no default-step pass runs
+                    .stepSize(0.5 / (loss.smoothness() * (d + 1)))
                     .epochs(epochs)
                     .seed(r)
                     .build();
             EpochClock clock = new EpochClock(epochs);
-            m.fit(data, FitOptions.listeners(clock));
+            EpochClock.requireBudgetSpent(m.fit(data, FitOptions.listeners(clock)));
             epochTimes[r] = clock.medianEpochNanos(1);
             double after = Timing.medianNanos(3, () -> Timing.sequentialRead(x, entries));
             reads[r] = 0.5 * (before + after);

@@ -1,5 +1,7 @@
 package dev.riskmin.examples.bench;
 
+import dev.riskmin.Fit;
+import dev.riskmin.StopReason;
 import dev.riskmin.hook.FitControl;
 import dev.riskmin.hook.FitListener;
 import dev.riskmin.hook.StepView;
@@ -22,6 +24,17 @@ public final class EpochClock implements FitListener {
     public void epochEnded(StepView view, FitControl control) {
         if (count < ends.length) {
             ends[count++] = view.elapsedNanos();
+        }
+    }
+
+    /**
+     * @throws IllegalStateException naming the stop reason if the fit stopped before its epoch budget
+     *                               (a timed epoch of a diverged fit would mean nothing)
+     */
+    public static void requireBudgetSpent(Fit fit) {
+        if (fit.stopReason() != StopReason.EPOCH_BUDGET) {
+            throw new IllegalStateException("a timed fit stopped early (" + fit.stopReason() + ": "
+                    + fit.stopDetail() + ")");
         }
     }
 

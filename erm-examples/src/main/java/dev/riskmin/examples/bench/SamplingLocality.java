@@ -102,7 +102,7 @@ final class SamplingLocality {
                 .seed(seed)
                 .build();
         EpochClock clock = new EpochClock(epochs);
-        m.fit(data, FitOptions.listeners(clock));
+        EpochClock.requireBudgetSpent(m.fit(data, FitOptions.listeners(clock)));
         return clock.medianEpochNanos(1);
     }
 }

@@ -68,7 +68,7 @@ final class SparseEpoch {
                 .seed(seed)
                 .build();
         EpochClock clock = new EpochClock(epochs);
-        m.fit(data, FitOptions.listeners(clock));
+        EpochClock.requireBudgetSpent(m.fit(data, FitOptions.listeners(clock)));
         return clock.medianEpochNanos(1);
     }
 }
