@@ -33,9 +33,14 @@ final class SamplingLocality {
     private SamplingLocality() {
     }
 
-    /** Sequential against without replacement. */
+    /** Sequential against without replacement, then the control loop of {@link LocalityProbe}. */
     static List<ResultRow> runWithoutReplacement(BenchSettings s) {
-        return run(s, Sampling.withoutReplacement(), "without replacement");
+        List<ResultRow> rows = new ArrayList<>(run(s, Sampling.withoutReplacement(), "without replacement"));
+        double[] x = SyntheticData.gaussian(s.denseEntries(), 1);
+        for (int d : DIMENSIONS) {
+            rows.addAll(LocalityProbe.run(s, x, d));
+        }
+        return rows;
     }
 
     /** Sequential against block-shuffled, or a row saying the sampler is not there. */
