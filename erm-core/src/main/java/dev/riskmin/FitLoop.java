@@ -11,6 +11,7 @@ import dev.riskmin.objective.Objective;
 import dev.riskmin.sampling.BatchSource;
 import dev.riskmin.sampling.Sampling;
 import dev.riskmin.step.StepSchedule;
+import dev.riskmin.util.Allocations;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
@@ -99,6 +100,7 @@ final class FitLoop implements StepView, Probe, FitControl {
         this.gradient = new double[p];
         this.lastFinite = h0.clone();
         this.batchSize = settings.batchSize();
+        Allocations.require("batchSize (" + batchSize + ")", batchSize, Allocations.BYTES_PER_DRAW);
         this.batch = new int[batchSize];
         this.scales = new double[batchSize];
         this.averager = settings.averaging().start(p, settings.info().plannedSteps());
@@ -131,7 +133,7 @@ final class FitLoop implements StepView, Probe, FitControl {
         for (int l = 0; l < listeners.length; l++) {
             try {
                 listeners[l].started(settings.info());
-            } catch (RuntimeException | AssertionError e) {
+            } catch (Exception | AssertionError e) {
                 detach(l, "started", e);
             }
         }
@@ -162,7 +164,8 @@ final class FitLoop implements StepView, Probe, FitControl {
             double loss = updater.gradient(h, batch, uniform ? null : scales, b, gradient);
             gradientStale = lazy;
             batchLoss = loss;
-            stepSize = settings.schedule().stepSize(t) * stepFactor;
+            double scheduled = settings.schedule().stepSize(t);
+            stepSize = scheduled * stepFactor;
             if (!Double.isFinite(loss)) {
                 reason = StopReason.DIVERGED;
                 detail = "the batch loss became " + loss + " at step " + t;
@@ -178,8 +181,16 @@ final class FitLoop implements StepView, Probe, FitControl {
                 break;
             }
             if (!(stepSize >= 0) || Double.isInfinite(stepSize)) {
-                throw new IllegalStateException("step schedule " + settings.schedule().name() + " gave step size "
-                        + stepSize + " at step " + t + "; it must be finite and >= 0");
+                if (!(scheduled >= 0) || Double.isInfinite(scheduled)) {
+                    throw new IllegalStateException("step schedule " + settings.schedule().name() + " gave step size "
+                            + scheduled + " at step " + t + "; it must be finite and >= 0");
+                }
+                // The listeners' factors carried a valid step beyond the double range: an explosion.
+                reason = StopReason.DIVERGED;
+                detail = "the step size overflowed at step " + t + ": the schedule's " + scheduled
+                        + " times the listeners' factor " + stepFactor + " is " + stepSize;
+                restoreLastFinite();
+                break;
             }
             notifyStep();
             if (haltReason != null) {
@@ -314,7 +325,7 @@ final class FitLoop implements StepView, Probe, FitControl {
             if (!detached[l]) {
                 try {
                     listeners[l].step(this, this);
-                } catch (RuntimeException | AssertionError e) {
+                } catch (Exception | AssertionError e) {
                     detach(l, "step", e);
                 }
             }
@@ -328,7 +339,7 @@ final class FitLoop implements StepView, Probe, FitControl {
             if (!detached[l]) {
                 try {
                     listeners[l].epochEnded(this, this);
-                } catch (RuntimeException | AssertionError e) {
+                } catch (Exception | AssertionError e) {
                     detach(l, "epochEnded", e);
                 }
             }
@@ -341,7 +352,7 @@ final class FitLoop implements StepView, Probe, FitControl {
         for (FitListener listener : listeners) {
             try {
                 listener.finished(fit);
-            } catch (RuntimeException | AssertionError e) {
+            } catch (Exception | AssertionError e) {
                 LOG.warn("listener {} failed in finished(): {}", listener.getClass().getName(), e.toString());
             }
         }
@@ -484,6 +495,7 @@ final class FitLoop implements StepView, Probe, FitControl {
             throw new IllegalArgumentException("independent batch size (" + size + ") must be >= 1");
         }
         if (probeBatch.length < size) {
+            Allocations.require("independent batch size (" + size + ")", size, Integer.BYTES);
             probeBatch = new int[size];
         }
         RandomGenerator rng = settings.probeRng();
@@ -540,6 +552,10 @@ final class FitLoop implements StepView, Probe, FitControl {
         if (!(factor > 0) || Double.isInfinite(factor)) {
             throw new IllegalArgumentException("step-size factor (" + factor + ") must be finite and > 0");
         }
+        if (inListeners && Double.isInfinite(stepSize * factor)) {
+            throw new IllegalArgumentException("step-size factor (" + factor + ") would carry this step's size "
+                    + stepSize + " beyond the double range");
+        }
         stepFactor *= factor;
         if (inListeners) {
             stepSize *= factor;
@@ -557,6 +573,7 @@ final class FitLoop implements StepView, Probe, FitControl {
         } catch (IllegalArgumentException e) {
             allowed = n;
         }
+        Allocations.require("requested batch size (" + allowed + ")", allowed, Allocations.BYTES_PER_DRAW);
         batchSize = allowed;
     }
 
