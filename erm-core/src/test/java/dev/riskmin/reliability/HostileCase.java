@@ -524,6 +524,14 @@ final class HostileCase {
         return y;
     }
 
+    private static int[] roundedLabels(double[] y) {
+        int[] labels = new int[y.length];
+        for (int i = 0; i < y.length; i++) {
+            labels[i] = (int) Math.round(y[i]);
+        }
+        return labels;
+    }
+
     private int[] labels(double[] z, int classes) {
         int n = z.length;
         int[] labels = new int[n];
@@ -696,6 +704,11 @@ final class HostileCase {
             note("fit(x, " + (multiclass ? "labels)" : "y)"));
             return multiclass ? minimizer.fit(x, labels) : minimizer.fit(x, y);
         }
+        if (entry < 17) {
+            // The other array form: class labels to a single-output loss, real targets to a multiclass one.
+            note(multiclass ? "fit(x, labels as doubles)" : "fit(x, y rounded to int labels)");
+            return multiclass ? minimizer.fit(x, Cases.asDoubles(labels)) : minimizer.fit(x, roundedLabels(y));
+        }
         if (entry < 23 && !multiclass) {
             return generalFit(minimizer, x, y);
         }
@@ -714,7 +727,10 @@ final class HostileCase {
             for (int i = 0; i < n; i++) {
                 asLabels[i] = y[i] > 0 ? 1 : 0;
             }
-            note("binary labels as class labels");
+            if (chance(0.2)) {
+                asLabels[r.nextInt(n)] = 2; // a third class for a binary loss
+            }
+            note("binary labels as class labels " + Arrays.toString(asLabels));
             b.labels(asLabels);
         } else {
             b.targets(y);

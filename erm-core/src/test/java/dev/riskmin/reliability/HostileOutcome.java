@@ -108,6 +108,11 @@ record HostileOutcome(Kind kind, String label, String detail) {
         if (!allFinite(fit.lastIterate())) {
             return "non-finite last iterate " + Arrays.toString(fit.lastIterate());
         }
+        double start = fit.initialObjective(); // exact here: n <= 50 rows is within the estimate's sample
+        if (fit.stopReason() != dev.riskmin.StopReason.DIVERGED
+                && !(fit.finalObjective() <= start + 10 * (Math.abs(start) + 1))) {
+            return "the objective ended at " + fit.finalObjective() + " from " + start + " without DIVERGED";
+        }
         if (c.sawNonFiniteView()) {
             return "a listener saw a non-finite batch loss or step size";
         }
