@@ -22,7 +22,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
  * message names the problem — never a NaN model, another exception, or a hang.
  *
  * <p>The number of cases is the system property {@value #CASES_PROPERTY} (default
- * {@value #DEFAULT_CASES}; the Maven profile {@code hostile-long} runs 200,000). All cases run in
+ * {@value #DEFAULT_CASES}; the Maven profile {@code hostile-long} of erm-core runs 1,000,000). All cases run in
  * one test so that one failure does not hide the others: failures are counted with their seeds and
  * the first few are reported in full. Each case is bounded twice: by the fit's own time budget
  * ({@link HostileCase#TIME_LIMIT}) and by a watchdog that waits {@value #CASE_TIMEOUT_MS} ms for

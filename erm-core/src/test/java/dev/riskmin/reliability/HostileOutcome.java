@@ -91,6 +91,8 @@ record HostileOutcome(Kind kind, String label, String detail) {
                 || message.startsWith("intercepts[")) {
             return failed("non-finite model", c, "the fit built a non-finite model: " + message, e);
         }
+        // The generator uses the library's own schedules, which must never give a non-finite step for
+        // options they accepted (the fit loop's refusal is meant for a caller's broken schedule).
         if (message.contains("gave step size")) {
             return failed("schedule overflow", c, message, e);
         }
