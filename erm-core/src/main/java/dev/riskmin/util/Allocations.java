@@ -7,7 +7,8 @@ import java.util.Locale;
  * than the largest Java array, or more bytes than this JVM's maximum heap
  * ({@link Runtime#maxMemory()}). A request that passes may still fail for want of free memory;
  * one that fails here would have ended in an {@link OutOfMemoryError} (or a long collection before
- * it), so it is refused with the size named instead.
+ * it), so it is refused with the size named instead. The rule: refuse when entries &gt; 2<sup>31</sup> − 9
+ * or entries × bytes per entry &gt; the maximum heap (common practice, no source).
  */
 public final class Allocations {
     /** The largest array length every common JVM allows (a few entries below Integer.MAX_VALUE). */

@@ -222,6 +222,8 @@ class FaultsTest {
             assertTrue(overshoot >= 0, rule.name() + " stopped early: " + fit);
             worstOvershoot = Math.max(worstOvershoot, overshoot);
         }
+        System.out.printf(java.util.Locale.ROOT, "time budget of %d ms: worst overshoot %.1f ms over %d update rules%n",
+                limitMillis, worstOvershoot, EveryLoss.rules().size());
         // Common practice, no source: a step here costs well under a millisecond; 500 ms leaves room
         // for a collection pause on a busy machine.
         assertTrue(worstOvershoot < 500, "worst overshoot " + worstOvershoot + " ms");
