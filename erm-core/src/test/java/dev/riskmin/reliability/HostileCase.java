@@ -36,7 +36,7 @@ import java.util.random.RandomGenerator;
  * so that about half of the cases reach the fit loop (common practice for fuzzing configurations,
  * no source: enough refusals to exercise every check, enough fits to exercise the loop).
  */
-final class HostileCase {
+public final class HostileCase {
     /** Every fit's own time budget: the first bound on a case's running time. */
     static final Duration TIME_LIMIT = Duration.ofMillis(200);
     /** The time budget of the rare cases that ask for an endless epoch budget. */
@@ -48,24 +48,40 @@ final class HostileCase {
     private boolean sawNonFiniteView;
     private Loss lastLoss;      // the single-output loss drawn, for the targets' domain
     private boolean intercept;  // drawn with the configuration, for the parameters' layout
+    private final FitListener extra;
 
-    HostileCase(long seed) {
-        this.seed = seed;
-        this.r = Cases.rng(seed);
+    public HostileCase(long seed) {
+        this(seed, null);
     }
 
-    long seed() {
+    /**
+     * @param extra a listener attached to every fit of the case (e.g. diagnostics), or null; with
+     *              one, the entry points without options go through {@code fit(Dataset, FitOptions)}
+     *              on the same data
+     */
+    public HostileCase(long seed, FitListener extra) {
+        this.seed = seed;
+        this.r = Cases.rng(seed);
+        this.extra = extra;
+    }
+
+    public long seed() {
         return seed;
     }
 
     /** @return what the case drew so far, in order */
-    String description() {
+    public String description() {
         return log.toString();
     }
 
     /** @return whether the probing listener saw a NaN batch loss or step size through the view */
     boolean sawNonFiniteView() {
         return sawNonFiniteView;
+    }
+
+    /** The extra listener alone, for the entry points that take no options. */
+    private FitOptions extraOnly() {
+        return extra == null ? FitOptions.none() : FitOptions.listeners(extra);
     }
 
     private HostileCase note(String what) {
@@ -670,7 +686,7 @@ final class HostileCase {
      * @return the fit
      * @throws RuntimeException whatever the library throws (the caller judges it)
      */
-    Fit run() {
+    public Fit run() {
         int n = 1 + r.nextInt(50);
         int d = 1 + r.nextInt(20);
         boolean multiclass = chance(0.2);
@@ -702,11 +718,19 @@ final class HostileCase {
         int entry = r.nextInt(100);
         if (entry < 15) {
             note("fit(x, " + (multiclass ? "labels)" : "y)"));
+            if (extra != null) {
+                return minimizer.fit(multiclass ? Dataset.of(x, labels) : Dataset.of(x, y), extraOnly());
+            }
             return multiclass ? minimizer.fit(x, labels) : minimizer.fit(x, y);
         }
         if (entry < 17) {
             // The other array form: class labels to a single-output loss, real targets to a multiclass one.
             note(multiclass ? "fit(x, labels as doubles)" : "fit(x, y rounded to int labels)");
+            if (extra != null) {
+                Dataset data = multiclass ? Dataset.of(x, Cases.asDoubles(labels))
+                        : Dataset.builder().features(x).targets(Cases.asDoubles(roundedLabels(y))).build();
+                return minimizer.fit(data, extraOnly());
+            }
             return multiclass ? minimizer.fit(x, Cases.asDoubles(labels)) : minimizer.fit(x, roundedLabels(y));
         }
         if (entry < 23 && !multiclass) {
@@ -744,7 +768,7 @@ final class HostileCase {
         Dataset data = b.build();
         if (entry < 35) {
             note("fit(data)");
-            return minimizer.fit(data);
+            return extra == null ? minimizer.fit(data) : minimizer.fit(data, extraOnly());
         }
         return minimizer.fit(data, options(data, x, multiclass ? classes : 0));
     }
@@ -755,6 +779,9 @@ final class HostileCase {
         if (chance(0.5)) {
             note("probing listener");
             o.listener(new ProbingListener(r.nextLong()));
+        }
+        if (extra != null) {
+            o.listener(extra);
         }
         if (chance(0.05)) {
             CancellationToken token = new CancellationToken();
@@ -817,6 +844,9 @@ final class HostileCase {
         if (chance(0.5)) {
             note("probing listener");
             o.listener(new ProbingListener(r.nextLong()));
+        }
+        if (extra != null) {
+            o.listener(extra);
         }
         return o.build();
     }

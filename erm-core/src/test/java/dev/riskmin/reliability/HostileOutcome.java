@@ -19,8 +19,9 @@ import java.util.regex.Pattern;
  * @param label   the stop reason, the exception class, or the kind of failure (for the tally)
  * @param detail  for a failure, what went wrong with the case's description and the stack trace
  */
-record HostileOutcome(Kind kind, String label, String detail) {
-    enum Kind { FITTED, REFUSED, FAILED }
+public record HostileOutcome(Kind kind, String label, String detail) {
+    /** The three outcomes. */
+    public enum Kind { FITTED, REFUSED, FAILED }
 
     /**
      * A message names the problem when it names an indexed entry ({@code x[3, 1]}, {@code weights[2]}),
@@ -41,7 +42,7 @@ record HostileOutcome(Kind kind, String label, String detail) {
         return new HostileOutcome(Kind.REFUSED, e.getClass().getSimpleName(), "");
     }
 
-    static HostileOutcome failed(String label, HostileCase c, String what, Throwable e) {
+    public static HostileOutcome failed(String label, HostileCase c, String what, Throwable e) {
         StringBuilder s = new StringBuilder();
         s.append("seed ").append(c.seed()).append(": ").append(what).append("\n    case: ").append(c.description());
         if (e != null) {
@@ -54,7 +55,16 @@ record HostileOutcome(Kind kind, String label, String detail) {
     }
 
     /** Runs the case and judges what it does. */
-    static HostileOutcome of(HostileCase c) {
+    public static HostileOutcome of(HostileCase c) {
+        return of(c, fit -> null);
+    }
+
+    /**
+     * Runs the case and judges what it does, with one more check of a returned fit.
+     *
+     * @param more says what else is wrong with a returned fit, or null
+     */
+    public static HostileOutcome of(HostileCase c, java.util.function.Function<Fit, String> more) {
         Fit fit;
         try {
             fit = c.run();
@@ -64,6 +74,9 @@ record HostileOutcome(Kind kind, String label, String detail) {
             return failed(e.getClass().getSimpleName(), c, "threw " + e, e);
         }
         String problem = problems(fit, c);
+        if (problem == null) {
+            problem = more.apply(fit);
+        }
         if (problem != null) {
             return failed("bad fit", c, problem + " — " + fit, null);
         }
