@@ -11,6 +11,7 @@ import dev.riskmin.objective.Objective;
 import dev.riskmin.sampling.BatchSource;
 import dev.riskmin.sampling.Sampling;
 import dev.riskmin.step.StepSchedule;
+import dev.riskmin.util.Allocations;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
@@ -29,12 +30,24 @@ import java.util.random.RandomGenerator;
  * {@link StopReason#DIVERGED}; the parameters are those of the last check at which they were all
  * finite (checked every {@value #CHECK_EVERY} steps — further apart for sparse steps, so the O(p) check
  * costs about as much as the steps between two checks — and at every epoch end).
+ *
+ * <p>A step far too large for a Lipschitz loss (absolute, pinball, hinge, logistic, …) does not blow
+ * up: the loss grows only in proportion to the step and plateaus far above its start, below any
+ * explosion bound loose enough for single heavy-tailed batches. So the objective L<sub>end</sub> of
+ * the returned parameters, computed anyway, is checked once more: if
+ * L<sub>end</sub> &gt; L<sub>0</sub> + {@value #FINAL_RISE} (|L<sub>0</sub>| + 1) or is not finite (the
+ * decision values overflow although the parameters are finite), with L<sub>0</sub> exact
+ * (recomputed over all n when the starting estimate used a subsample), the fit is reported as
+ * {@link StopReason#DIVERGED} with those (finite) parameters. The bound is this library's choice
+ * (common practice, no source): a working fit ends below its start, or at worst near it when started
+ * close to the optimum.
  */
 final class FitLoop implements StepView, Probe, FitControl {
     private static final Logger LOG = LoggerFactory.getLogger(FitLoop.class);
     static final int CHECK_EVERY = 16;
     private static final int BASELINE_SAMPLES = 4096;
     private static final double LOSS_SMOOTHING = 0.1;
+    static final double FINAL_RISE = 10.0;
 
     /** The settings of one run, resolved by the {@link Minimizer}. */
     record Settings(Updater updater, BatchSource source, Sampling sampling, StepSchedule schedule,
@@ -60,6 +73,7 @@ final class FitLoop implements StepView, Probe, FitControl {
     private final CancellationToken token;
     private final Averaging.Accumulator averager;
 
+    private final double[] start; // h0 as given (not changed by the caller while the fit runs)
     private final double[] h;
     private final double[] gradient;
     private final double[] lastFinite;
@@ -95,10 +109,12 @@ final class FitLoop implements StepView, Probe, FitControl {
         this.listeners = listeners.toArray(new FitListener[0]);
         this.detached = new boolean[this.listeners.length];
         this.token = token;
+        this.start = h0;
         this.h = h0.clone();
         this.gradient = new double[p];
         this.lastFinite = h0.clone();
         this.batchSize = settings.batchSize();
+        Allocations.require("batchSize (" + batchSize + ")", batchSize, Allocations.BYTES_PER_DRAW);
         this.batch = new int[batchSize];
         this.scales = new double[batchSize];
         this.averager = settings.averaging().start(p, settings.info().plannedSteps());
@@ -131,7 +147,7 @@ final class FitLoop implements StepView, Probe, FitControl {
         for (int l = 0; l < listeners.length; l++) {
             try {
                 listeners[l].started(settings.info());
-            } catch (RuntimeException | AssertionError e) {
+            } catch (Exception | AssertionError e) {
                 detach(l, "started", e);
             }
         }
@@ -162,7 +178,8 @@ final class FitLoop implements StepView, Probe, FitControl {
             double loss = updater.gradient(h, batch, uniform ? null : scales, b, gradient);
             gradientStale = lazy;
             batchLoss = loss;
-            stepSize = settings.schedule().stepSize(t) * stepFactor;
+            double scheduled = settings.schedule().stepSize(t);
+            stepSize = scheduled * stepFactor;
             if (!Double.isFinite(loss)) {
                 reason = StopReason.DIVERGED;
                 detail = "the batch loss became " + loss + " at step " + t;
@@ -178,8 +195,16 @@ final class FitLoop implements StepView, Probe, FitControl {
                 break;
             }
             if (!(stepSize >= 0) || Double.isInfinite(stepSize)) {
-                throw new IllegalStateException("step schedule " + settings.schedule().name() + " gave step size "
-                        + stepSize + " at step " + t + "; it must be finite and >= 0");
+                if (!(scheduled >= 0) || Double.isInfinite(scheduled)) {
+                    throw new IllegalStateException("step schedule " + settings.schedule().name() + " gave step size "
+                            + scheduled + " at step " + t + "; it must be finite and >= 0");
+                }
+                // The listeners' factors carried a valid step beyond the double range: an explosion.
+                reason = StopReason.DIVERGED;
+                detail = "the step size overflowed at step " + t + ": the schedule's " + scheduled
+                        + " times the listeners' factor " + stepFactor + " is " + stepSize;
+                restoreLastFinite();
+                break;
             }
             notifyStep();
             if (haltReason != null) {
@@ -241,9 +266,28 @@ final class FitLoop implements StepView, Probe, FitControl {
             }
         }
         double finalObjective = objective.value(result);
+        if (reason != StopReason.DIVERGED && roseFar(finalObjective, baseline)) {
+            double exact = n > BASELINE_SAMPLES ? objective.value(start) : baseline;
+            if (roseFar(finalObjective, exact)) {
+                String was = reason + (detail.isEmpty() ? "" : ": " + detail);
+                detail = Double.isFinite(finalObjective)
+                        ? "the objective rose from " + exact + " at the start to " + finalObjective + " at the end, more"
+                        + " than " + FINAL_RISE + " x (|start| + 1) above it: the step size is too large for this loss ("
+                        + was + ")"
+                        : "the objective at the returned parameters is " + finalObjective + " (the decision values"
+                        + " overflow; it was " + exact + " at the start): the steps grew the parameters too far (" + was
+                        + ")";
+                reason = StopReason.DIVERGED;
+            }
+        }
         long nanos = System.nanoTime() - startNanos;
         return new Outcome(n, result, h.clone(), averaged, reason, detail, t, draws, updater.gradientEvaluations(),
                 probeEvaluations, nanos, baseline, finalObjective, stepFactor, batchSize, failures);
+    }
+
+    /** @return whether the objective ended far above its start, or not finite (w·x overflowed at the end) */
+    private static boolean roseFar(double end, double start) {
+        return !(end <= start + FINAL_RISE * (Math.abs(start) + 1.0));
     }
 
     private double estimateObjective() {
@@ -314,7 +358,7 @@ final class FitLoop implements StepView, Probe, FitControl {
             if (!detached[l]) {
                 try {
                     listeners[l].step(this, this);
-                } catch (RuntimeException | AssertionError e) {
+                } catch (Exception | AssertionError e) {
                     detach(l, "step", e);
                 }
             }
@@ -328,7 +372,7 @@ final class FitLoop implements StepView, Probe, FitControl {
             if (!detached[l]) {
                 try {
                     listeners[l].epochEnded(this, this);
-                } catch (RuntimeException | AssertionError e) {
+                } catch (Exception | AssertionError e) {
                     detach(l, "epochEnded", e);
                 }
             }
@@ -341,7 +385,7 @@ final class FitLoop implements StepView, Probe, FitControl {
         for (FitListener listener : listeners) {
             try {
                 listener.finished(fit);
-            } catch (RuntimeException | AssertionError e) {
+            } catch (Exception | AssertionError e) {
                 LOG.warn("listener {} failed in finished(): {}", listener.getClass().getName(), e.toString());
             }
         }
@@ -484,6 +528,7 @@ final class FitLoop implements StepView, Probe, FitControl {
             throw new IllegalArgumentException("independent batch size (" + size + ") must be >= 1");
         }
         if (probeBatch.length < size) {
+            Allocations.require("independent batch size (" + size + ")", size, Integer.BYTES);
             probeBatch = new int[size];
         }
         RandomGenerator rng = settings.probeRng();
@@ -550,6 +595,10 @@ final class FitLoop implements StepView, Probe, FitControl {
         if (!(factor > 0) || Double.isInfinite(factor)) {
             throw new IllegalArgumentException("step-size factor (" + factor + ") must be finite and > 0");
         }
+        if (inListeners && Double.isInfinite(stepSize * factor)) {
+            throw new IllegalArgumentException("step-size factor (" + factor + ") would carry this step's size "
+                    + stepSize + " beyond the double range");
+        }
         stepFactor *= factor;
         if (inListeners) {
             stepSize *= factor;
@@ -567,6 +616,7 @@ final class FitLoop implements StepView, Probe, FitControl {
         } catch (IllegalArgumentException e) {
             allowed = n;
         }
+        Allocations.require("requested batch size (" + allowed + ")", allowed, Allocations.BYTES_PER_DRAW);
         batchSize = allowed;
     }
 

@@ -199,6 +199,8 @@ public final class Minimizer {
     public Fit fit(Objective objective, FitOptions options) {
         Arguments.notNull("objective", objective);
         Arguments.notNull("options", options);
+        dev.riskmin.util.Allocations.requireParameters("objective dimension (" + objective.dimension() + ")",
+                objective.dimension());
         double[] h0 = options.initialParameters();
         if (h0 == null) {
             h0 = new double[objective.dimension()];

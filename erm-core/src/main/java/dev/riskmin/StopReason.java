@@ -14,7 +14,10 @@ public enum StopReason {
     CANCELLED,
     /** The fitting thread was interrupted (its interrupt flag is left set). */
     INTERRUPTED,
-    /** The loss or the parameters became non-finite or exploded; the last finite parameters were kept. */
+    /**
+     * The loss or the parameters became non-finite or exploded (the last finite parameters were kept),
+     * or the fit ended with an objective far above its start (see the detail).
+     */
     DIVERGED,
     /** A stopping test judged the run converged. */
     CONVERGED,

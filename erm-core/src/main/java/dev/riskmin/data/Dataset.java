@@ -263,8 +263,13 @@ public final class Dataset {
                 throw new NullPointerException("labels must not be null");
             }
             int max = 1;
-            for (int label : labels) {
-                max = Math.max(max, label);
+            for (int i = 0; i < labels.length; i++) {
+                if (labels[i] == Integer.MAX_VALUE) {
+                    // K = max + 1 would overflow: name the label rather than a negative class count.
+                    throw new IllegalArgumentException("labels[" + i + "] (" + labels[i]
+                            + ") is too large: labels are 0..K-1 with K = the largest label + 1");
+                }
+                max = Math.max(max, labels[i]);
             }
             return labels(labels, max + 1);
         }

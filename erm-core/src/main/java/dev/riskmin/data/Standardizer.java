@@ -315,8 +315,9 @@ public final class Standardizer {
      * @param blocks    K ≥ 1, the number of outputs (1 for a single-output model)
      * @param intercept whether each block ends with an intercept
      * @return the parameters on the original scale, in the same layout
-     * @throws IllegalArgumentException if h has the wrong length, blocks &lt; 1, or intercept is
-     *                                  false while this standardizer centres (the shift would be lost)
+     * @throws IllegalArgumentException if h has the wrong length, blocks &lt; 1, intercept is false
+     *                                  while this standardizer centres (the shift would be lost), or a
+     *                                  parameter maps beyond the double range (naming it and its column)
      */
     public double[] toOriginalScale(double[] h, int blocks, boolean intercept) {
         int stride = checkLayout(h, blocks, intercept);
@@ -334,6 +335,7 @@ public final class Standardizer {
                 out[base + d] = h[base + d] - shift;
             }
         }
+        requireFinite(h, out, stride, "original");
         return out;
     }
 
@@ -364,7 +366,23 @@ public final class Standardizer {
                 out[base + d] = h[base + d] + shift;
             }
         }
+        requireFinite(h, out, stride, "standardized");
         return out;
+    }
+
+    /** Refuses a mapping that overflowed: finite parameters must map to finite ones, or the caller hears why. */
+    private void requireFinite(double[] h, double[] out, int stride, String scale) {
+        int d = means.length;
+        for (int i = 0; i < out.length; i++) {
+            if (!Double.isFinite(out[i])) {
+                int j = i % stride;
+                String why = j < d
+                        ? "column " + j + " has scale " + scales[j]
+                        : "the intercept absorbs the coefficients times the column means";
+                throw new IllegalArgumentException("parameter h[" + i + "] (" + h[i] + ") is " + out[i] + " on the "
+                        + scale + " scale, beyond the double range: " + why);
+            }
+        }
     }
 
     private int checkLayout(double[] h, int blocks, boolean intercept) {

@@ -19,7 +19,11 @@ public interface FitControl {
     /**
      * Multiplies every later step size by {@code factor} (cumulative: two halvings make a quarter).
      *
-     * @throws IllegalArgumentException if factor is not finite and &gt; 0
+     * <p>A later step whose size the factors carry beyond the double range stops the fit with
+     * {@link StopReason#DIVERGED}.
+     *
+     * @throws IllegalArgumentException if factor is not finite and &gt; 0, or would carry the current
+     *                                  step's size beyond the double range
      */
     void scaleStepSize(double factor);
 
@@ -27,7 +31,8 @@ public interface FitControl {
      * Asks for batches of {@code size} from the next step on (clamped to n for sampling without
      * replacement).
      *
-     * @throws IllegalArgumentException if size &lt; 1
+     * @throws IllegalArgumentException if size &lt; 1, or if the batch's buffers could never fit this
+     *                                  JVM's heap (naming the size)
      */
     void requestBatchSize(int size);
 

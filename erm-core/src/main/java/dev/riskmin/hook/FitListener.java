@@ -5,8 +5,10 @@ import dev.riskmin.Fit;
 /**
  * Receives the events of one fit, on the fitting thread. Every method defaults to doing nothing.
  *
- * <p>A listener that throws is detached for the rest of the fit and the failure is recorded on the
- * {@link Fit} (and logged once at WARN); the fit itself goes on. A listener that must not slow the
+ * <p>A listener that throws — any {@link Exception}, checked ones included, or an {@link AssertionError} —
+ * is detached for the rest of the fit and the failure is recorded on the {@link Fit} (and logged once
+ * at WARN); the fit itself goes on. Other errors ({@link OutOfMemoryError}, {@link StackOverflowError})
+ * end the fit and reach the caller. A listener that must not slow the
  * fit should do its work at a cadence ({@link StepView#step()} modulo k) and must not allocate in
  * {@link #step}.
  */

@@ -2,6 +2,7 @@ package dev.riskmin.method;
 
 import dev.riskmin.objective.LinearStructure;
 import dev.riskmin.objective.Objective;
+import dev.riskmin.util.Allocations;
 
 import java.util.Arrays;
 
@@ -37,6 +38,8 @@ final class Saga implements UpdateRule {
                     + objective.dimension() + " = " + entries + " gradient entries (" + (entries * 8 >> 20)
                     + " MiB), more than the limit of " + MAX_TABLE_ENTRIES + "; use SVRG, which stores none");
         }
+        Allocations.require("SAGA's gradient table of n x p = " + objective.size() + " x " + objective.dimension(),
+                entries, Double.BYTES);
         return new TableState(objective, h0);
     }
 

@@ -2,6 +2,7 @@ package dev.riskmin.objective;
 
 import dev.riskmin.data.SampleWeights;
 import dev.riskmin.penalty.Penalty;
+import dev.riskmin.util.Allocations;
 
 import java.util.Arrays;
 
@@ -38,6 +39,7 @@ public final class GeneralObjective extends PenalizedObjective {
         if (p < 1) {
             throw new IllegalArgumentException("sample function dimension (" + p + ") must be >= 1");
         }
+        Allocations.requireParameters("sample function dimension (" + p + ")", p);
         boolean[] mask = new boolean[p];
         for (int j = 0; j < p; j++) {
             mask[j] = f.penalized(j);

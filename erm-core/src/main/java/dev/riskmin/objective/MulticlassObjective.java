@@ -5,6 +5,7 @@ import dev.riskmin.data.FeatureMatrix;
 import dev.riskmin.data.TargetKind;
 import dev.riskmin.loss.MulticlassLoss;
 import dev.riskmin.penalty.Penalty;
+import dev.riskmin.util.Allocations;
 
 import java.util.Arrays;
 
@@ -47,6 +48,10 @@ public final class MulticlassObjective extends PenalizedObjective {
             throw new IllegalArgumentException("the " + loss.name()
                     + " loss needs class labels 0..K-1; build the dataset with labels(int[], K)");
         }
+        // K comes from the largest label, so one stray label can ask for billions of parameters.
+        long parameters = (long) data.classes() * (data.dimension() + 1L);
+        Allocations.requireParameters("a model of " + data.classes() + " classes (the largest label + 1) x "
+                + (data.dimension() + 1) + " = " + parameters + " parameters", parameters);
         return data.classes();
     }
 

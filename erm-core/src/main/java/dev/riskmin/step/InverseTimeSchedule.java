@@ -31,6 +31,9 @@ public final class InverseTimeSchedule implements StepSchedule {
     @Override
     public double stepSize(long t) {
         Steps.requireStep(t);
+        if (t == 0) {
+            return initialStepSize; // λ ε0 may overflow to ∞, and ∞ · 0 would be NaN
+        }
         return initialStepSize / (1.0 + lambda * initialStepSize * t);
     }
 

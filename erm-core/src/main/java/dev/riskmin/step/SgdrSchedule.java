@@ -74,7 +74,11 @@ public final class SgdrSchedule implements StepSchedule {
             double start = cycleStart(i);
             fraction = (time - start) / (cycleStart(i + 1) - start);
         }
-        return minStepSize + (maxStepSize - minStepSize) * (1.0 + Math.cos(Math.PI * fraction)) * 0.5;
+        // The cosine factor is halved before it scales the range, so a range near the largest double
+        // cannot overflow (halving is exact, so the result is the same wherever nothing overflows).
+        // Rounding can carry min + (max − min) a little above max, and past the largest double.
+        return Math.min(maxStepSize,
+                minStepSize + (maxStepSize - minStepSize) * ((1.0 + Math.cos(Math.PI * fraction)) * 0.5));
     }
 
     /** S<sub>i</sub> = T<sub>0</sub>(m<sup>i</sup> − 1)/(m − 1), exact for whole T<sub>0</sub>, m and i while it fits a double. */

@@ -148,7 +148,9 @@ public final class StepCalibration {
             chosen = hi;
         } else {
             throw new IllegalStateException("step calibration found no step with a finite score in " + trials.size()
-                    + " trials down to stepSize " + lo + " (is the loss finite at the starting parameters?)");
+                    + " trials down to stepSize " + lo + ": the loss is not finite at the starting parameters, or"
+                    + " the features are so large that every trial step overflows (standardize them, or give a"
+                    + " step size)");
         }
         return new Calibration(chosen, trials, m, pass.batch);
     }

@@ -53,6 +53,11 @@ import dev.riskmin.util.Arguments;
  * finite-population factor (n − 1)/n, negligible for the large n that has such a reference,
  * without replacement). The figures are NaN only when nothing can be formed (B = n = 1).
  *
+ * <h2>A batch larger than n without independent draws</h2>
+ * Sequential sampling may draw B &gt; n, wrapping around the data, so that the batch holds some
+ * samples twice: it is then neither an i.i.d. sample nor one without replacement, and the monitor
+ * does not probe it (its figures stay as they were).
+ *
  * <h2>Smoothing</h2>
  * The figures are noisy from probe to probe, and B<sub>simple</sub> is a ratio: the ratio of two
  * unbiased estimates is biased, more so the noisier they are. So the numerator tr Σ and the
@@ -256,7 +261,10 @@ public final class NoiseMonitor implements Monitor {
         long spent = v.gradientEvaluations();
         boolean referenceDue = referencePacer.due(t, spent);
         boolean batchDue = batchPacer.due(t, spent);
-        if (referenceDue || (batchDue && v.batchLength() >= 2)) {
+        // Sequential sampling wraps around: a batch of B > n holds some samples twice, so it is no
+        // sample without replacement and the finite-population forms (1 − B/n) do not apply.
+        boolean sample = context.run().withReplacement() || v.batchLength() <= v.sampleCount();
+        if (sample && (referenceDue || (batchDue && v.batchLength() >= 2))) {
             probe(context, v, referenceDue);
         }
     }
