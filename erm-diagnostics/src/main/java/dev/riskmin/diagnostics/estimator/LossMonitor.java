@@ -113,6 +113,11 @@ public final class LossMonitor implements Monitor {
     private boolean subsampleAvailable;
     private long lastExactTrendStep = Long.MIN_VALUE;
     private long pairSpacing = 1;
+    private long nextPair;
+    private long nextReport;
+    private double allowanceSquared;
+    /** The summary's ascent share and oscillation are refreshed every 64 steps and at the end. */
+    private static final long SUMMARY_EVERY_MASK = 63;
     private final long[] historyStep = new long[HISTORY];
     private final double[] historyValue = new double[HISTORY];
     private int historySize;
@@ -216,6 +221,9 @@ public final class LossMonitor implements Monitor {
         pairSpacing = Math.max(1, (m * 100L + n - 1) / n);
         havePrevious = false;
         subsampleAvailable = true;
+        nextPair = 0;
+        nextReport = 0;
+        allowanceSquared = allowance * allowance;
         lastExactTrendStep = Long.MIN_VALUE;
         objective = Double.NaN;
         heldOut = Double.NaN;
@@ -237,10 +245,10 @@ public final class LossMonitor implements Monitor {
         } else {
             if (seen >= warmUp) {
                 counted++;
-                if (loss > mean + allowance * Math.sqrt(variance)) {
+                double gap = loss - mean; // ascent: gap > z √v, tested without a square root
+                if (gap > 0 && gap * gap > allowanceSquared * variance) {
                     ascents++;
                 }
-                summary.ascentShare = (double) ascents / counted;
             }
             double delta = loss - mean;
             double increment = smoothing * delta;
@@ -248,9 +256,14 @@ public final class LossMonitor implements Monitor {
             variance = (1.0 - smoothing) * (variance + delta * increment);
         }
         seen++;
-        summary.lossOscillation = Math.sqrt(variance) / Math.abs(mean);
-        if (subsampleAvailable && objectiveCadence.active() && t % (window * pairSpacing) == 0) {
-            pairedTrend(v, summary);
+        if ((seen & SUMMARY_EVERY_MASK) == 0) {
+            updateSummary(summary);
+        }
+        if (t >= nextPair) {
+            nextPair = t + window * pairSpacing; // countdowns, not a division per step
+            if (subsampleAvailable && objectiveCadence.active()) {
+                pairedTrend(v, summary);
+            }
         }
         long spent = v.gradientEvaluations();
         double measuredObjective = Double.NaN;
@@ -273,7 +286,11 @@ public final class LossMonitor implements Monitor {
             measuredHeldOut = heldOut;
             measured = true;
         }
-        if (measured || t % report == 0) {
+        boolean reportDue = t >= nextReport;
+        if (reportDue) {
+            nextReport = t + report;
+        }
+        if (measured || reportDue) {
             context.publish(new LossEvent(t, v.epoch(), loss, mean, measuredObjective, measuredHeldOut, measuredNorm,
                     v.stepSize(), v.batchLength()));
         }
@@ -390,9 +407,19 @@ public final class LossMonitor implements Monitor {
         havePrevious = true;
     }
 
+    private void updateSummary(RunSummary summary) {
+        if (counted > 0) {
+            summary.ascentShare = (double) ascents / counted;
+        }
+        summary.lossOscillation = Math.sqrt(variance) / Math.abs(mean);
+    }
+
     /** Records the fit's own final objective when it is that of the last iterate. */
     @Override
     public void finished(Fit fit, StepContext context) {
+        if (seen > 0) {
+            updateSummary(context.summary());
+        }
         double value = fit.finalObjective();
         if (Double.isFinite(value) && !fit.averaged() && Arrays.equals(fit.parameters(), fit.lastIterate())) {
             record(fit.steps(), value, context.summary());

@@ -28,6 +28,7 @@ public final class OscillationMonitor implements Monitor {
     private double[] current = new double[0];
     private long spacing;
     private long pendingStep = -1;
+    private long nextPair;
     private double mean = Double.NaN;
     private long pairs;
 
@@ -55,6 +56,7 @@ public final class OscillationMonitor implements Monitor {
         current = new double[p];
         spacing = every > 0 ? every : Math.max(64, p / Math.max(1, run.batchSize()));
         pendingStep = -1;
+        nextPair = 0;
         mean = Double.NaN;
         pairs = 0;
     }
@@ -82,7 +84,8 @@ public final class OscillationMonitor implements Monitor {
             }
             return;
         }
-        if (t % spacing == 0) {
+        if (t >= nextPair) {
+            nextPair = t + spacing; // a countdown, not a division per step
             view.copyBatchGradient(previous);
             pendingStep = t;
         }
