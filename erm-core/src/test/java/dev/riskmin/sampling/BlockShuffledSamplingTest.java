@@ -12,7 +12,9 @@ import dev.riskmin.loss.Losses;
 import dev.riskmin.objective.LinearObjective;
 import dev.riskmin.penalty.Penalty;
 import dev.riskmin.testing.Cases;
+import java.util.ArrayList;
 import java.util.Arrays;
+import java.util.List;
 import java.util.random.RandomGenerator;
 import org.apache.commons.math3.stat.inference.ChiSquareTest;
 import org.junit.jupiter.api.Test;
@@ -318,6 +320,47 @@ class BlockShuffledSamplingTest {
                 assertEquals(full[j], mean[j], 1e-12 * Math.max(1.0, Math.abs(full[j])), "epoch " + epoch + ", coordinate " + j);
             }
         }
+    }
+
+    @ParameterizedTest(name = "seed={0}")
+    @MethodSource("dev.riskmin.testing.Cases#seeds20")
+    void prefetchesEachBlockBeforeDrawingFromIt(long seed) {
+        // The prefetcher sees each block's rows (two ranges when the block wraps past row n − 1) before
+        // the first of them is drawn, and the ranges of one epoch cover every row exactly once.
+        int n = 50;
+        int m = 8; // six full blocks and one of 2
+        List<int[]> calls = new ArrayList<>();
+        SamplingContext context = SamplingContext.of(n, null, null).withPrefetcher((from, to) -> {
+            assertTrue(0 <= from && from < to && to <= n, "range [" + from + ", " + to + ")");
+            calls.add(new int[] {from, to});
+        });
+        BatchSource source = Sampling.blockShuffled(m).start(context, Cases.rng(seed));
+        int[] draw = new int[1];
+        double[] scale = new double[1];
+        List<int[]> block = new ArrayList<>();
+        int[] covered = new int[n];
+        for (int k = 0; k < 10 * n; k++) {
+            calls.clear();
+            source.next(draw, scale, 1);
+            if (!calls.isEmpty()) {
+                assertTrue(calls.size() <= 2, "one block, at most two ranges: " + calls.size());
+                block = new ArrayList<>(calls);
+                for (int[] range : calls) {
+                    for (int i = range[0]; i < range[1]; i++) {
+                        covered[i]++;
+                    }
+                }
+            }
+            int row = draw[0];
+            assertTrue(block.stream().anyMatch(r -> r[0] <= row && row < r[1]), "row " + row + " drawn at " + k
+                    + " was not prefetched with its block");
+            if ((k + 1) % n == 0) {
+                for (int i = 0; i < n; i++) {
+                    assertEquals((k + 1) / n, covered[i], "row " + i + " prefetched once per epoch");
+                }
+            }
+        }
+        assertThrows(NullPointerException.class, () -> SamplingContext.of(n, null, null).withPrefetcher(null));
     }
 
     @Test
