@@ -250,6 +250,7 @@ class ParallelFitTest {
             longBytes = Math.min(longBytes, after - middle);
         }
         long extra = longBytes - shortBytes;
+        System.out.println("allocation, 2 threads, B = " + B + ": " + extra + " B on the fitting thread over 1,000 extra steps");
         assertTrue(extra < 4096, "the fitting thread allocated " + extra + " B over 1,000 extra steps of B = " + B);
         assertNoGradientThreads("the allocation runs");
     }

@@ -21,6 +21,8 @@ import dev.riskmin.penalty.Penalty;
  * visit (used by block-shuffled sampling).
  */
 public final class LinearObjective extends PenalizedObjective implements LinearStructure {
+    private static final int DOUBLES_PER_LINE = 8; // 64-byte cache lines
+
     private final FeatureMatrix x;
     private final DenseFeatures dense;   // non-null on the dense path
     private final SparseFeatures sparse; // non-null on the sparse path
@@ -30,7 +32,6 @@ public final class LinearObjective extends PenalizedObjective implements LinearS
     private final int n;
     private final int d;
     private final boolean intercept;
-    private static final int DOUBLES_PER_LINE = 8;
     private double prefetched; // the sink of prefetchRows, read by nothing
 
     private final GradientThreads threads;     // null: sequential only
@@ -56,9 +57,10 @@ public final class LinearObjective extends PenalizedObjective implements LinearS
         int chunks = threads == null ? 1 : threads.threads();
         this.partialGradients = new double[chunks][];
         for (int c = 1; c < chunks; c++) {
-            partialGradients[c] = new double[dimension()];
+            // Padding of two cache lines keeps each worker's hot buffer off the lines of its neighbours.
+            partialGradients[c] = new double[dimension() + 2 * DOUBLES_PER_LINE];
         }
-        this.partialLosses = new double[chunks];
+        this.partialLosses = new double[chunks * DOUBLES_PER_LINE]; // chunk c at c · 8: one line each
         this.chunkJob = chunks > 1 ? new ChunkJob() : null;
     }
 
@@ -209,14 +211,14 @@ public final class LinearObjective extends PenalizedObjective implements LinearS
             job.clear();
         }
         int chunks = partialGradients.length;
-        int p = g.length;
+        int p = dimension();
         double lossSum = partialLosses[0];
         for (int c = 1; c < chunks; c++) {
             double[] part = partialGradients[c];
             for (int j = 0; j < p; j++) {
                 g[j] += part[j];
             }
-            lossSum += partialLosses[c];
+            lossSum += partialLosses[c * DOUBLES_PER_LINE];
         }
         return lossSum;
     }
@@ -258,7 +260,7 @@ public final class LinearObjective extends PenalizedObjective implements LinearS
                 target = partialGradients[chunk];
                 java.util.Arrays.fill(target, 0.0);
             }
-            partialLosses[chunk] = accumulate(h, batch, scales, from, lo, hi, inv, target);
+            partialLosses[chunk * DOUBLES_PER_LINE] = accumulate(h, batch, scales, from, lo, hi, inv, target);
         }
     }
 

@@ -293,6 +293,8 @@ class ParallelBatchGradientTest {
             long callerBytes = counters.getThreadAllocatedBytes(caller) - callerBefore;
             long workerBytes = counters.getThreadAllocatedBytes(worker) - workerBefore;
             assertTrue(Double.isFinite(sink));
+            System.out.println("allocation over 2,000 split batches of 2048: calling thread " + callerBytes
+                    + " B, worker " + workerBytes + " B");
             // A small allowance for the measurement itself (common practice, no source).
             assertTrue(callerBytes <= 256, "calling thread allocated " + callerBytes + " B over 2,000 batches");
             assertTrue(workerBytes <= 256, "worker allocated " + workerBytes + " B over 2,000 batches");
