@@ -51,6 +51,15 @@ import java.util.random.RandomGenerator;
  * "In-database machine learning with CorgiPile: stochastic gradient descent without full data
  * shuffle", SIGMOD 2022 (from memory); the random rotation is ours.
  *
+ * <p><b>Prefetch.</b> Random order within a block still defeats the hardware's stream prefetcher:
+ * each row starts at an unpredicted address and pays one memory latency. So when the context carries
+ * a {@link RowPrefetcher} ({@link SamplingContext#withPrefetcher}; the {@code Minimizer} passes one
+ * for linear objectives), the source hands it each block's rows, as one range or two when the block
+ * wraps, before the first of them is drawn; the prefetcher reads them sequentially and the random
+ * reads that follow hit the cache. On the development machine (logistic SGD, B = 1, d = 100,
+ * n = 10<sup>6</sup>, loop time of one epoch) this brought the block-shuffled epoch from about 2× to
+ * about 1.4× the storage-order epoch; uniform sampling without replacement took about 5×.
+ *
  * <p><b>Block size.</b> The sampler does not know the row width, so the block is a row count,
  * default {@value #DEFAULT_BLOCK_ROWS}. For a dense row-major matrix with d = 100 columns a block is
  * 64 × 808 bytes ≈ 50 KiB (a few pages, within the second-level cache); for narrow rows it is
