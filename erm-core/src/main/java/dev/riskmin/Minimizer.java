@@ -11,6 +11,7 @@ import dev.riskmin.method.UpdateRule;
 import dev.riskmin.method.Updater;
 import dev.riskmin.model.LinearModel;
 import dev.riskmin.model.MulticlassModel;
+import dev.riskmin.objective.GradientThreads;
 import dev.riskmin.objective.LinearObjective;
 import dev.riskmin.objective.MulticlassObjective;
 import dev.riskmin.objective.Objective;
@@ -33,10 +34,10 @@ import java.util.random.RandomGeneratorFactory;
  * A configured stochastic minimizer of L(h) = (1/n) Σ<sub>i</sub> ω<sub>i</sub> ℓ<sub>i</sub>(h) + R(h).
  * Built once with {@link #builder()}, it is immutable and thread-safe: any number of threads may
  * call {@link #fit} at once, each fit keeping its own state. The same seed gives the same result,
- * bit for bit, on one thread.
+ * bit for bit, for a given number of {@link Builder#threads(int) threads}.
  *
  * <p>Defaults: squared loss, no penalty, plain SGD, sampling without replacement, batch size 1,
- * 10 epochs, seed 0, an intercept, no standardization, no averaging. The default step size is
+ * 10 epochs, seed 0, an intercept, no standardization, no averaging, one thread. The default step size is
  * constant at the update rule's safe value for the largest per-sample smoothness constant
  * L<sub>max</sub> = max<sub>i</sub> L<sub>i</sub> + λ<sub>2</sub> (e.g. 1/L<sub>max</sub> for SGD, 1/(3L<sub>max</sub>) for SAGA);
  * where the loss has no smoothness constant (hinge, absolute, pinball) the initial step is calibrated
@@ -67,6 +68,8 @@ public final class Minimizer {
     private final boolean intercept;
     private final boolean standardize;
     private final double explosionFactor;
+    private final int threads;
+    private final int parallelThreshold;
 
     private Minimizer(Builder b) {
         this.loss = b.loss;
@@ -86,6 +89,8 @@ public final class Minimizer {
         this.intercept = b.intercept;
         this.standardize = b.standardize;
         this.explosionFactor = b.explosionFactor;
+        this.threads = b.threads;
+        this.parallelThreshold = b.parallelThreshold;
     }
 
     public static Builder builder() {
@@ -133,38 +138,51 @@ public final class Minimizer {
             heldOutData = standardizer != null ? standardizer.apply(heldOutData) : heldOutData;
         }
         int blocks;
-        if (multiclassLoss != null) {
-            objective = MulticlassObjective.of(fitted, multiclassLoss, penalty, intercept);
-            if (heldOutData != null) {
-                if (heldOutData.classes() != fitted.classes()) {
-                    throw new IllegalArgumentException("held-out data have " + heldOutData.classes()
-                            + " classes, the training data " + fitted.classes());
+        FitLoop.Outcome out;
+        // The workers of the parallel batch gradient live for this fit only (started at the first large
+        // batch); they are stopped before the result is assembled, whatever way the loop ended.
+        GradientThreads workers = threads > 1 && multiclassLoss == null
+                ? GradientThreads.of(threads, parallelThreshold) : null;
+        try {
+            if (multiclassLoss != null) {
+                objective = MulticlassObjective.of(fitted, multiclassLoss, penalty, intercept);
+                if (heldOutData != null) {
+                    if (heldOutData.classes() != fitted.classes()) {
+                        throw new IllegalArgumentException("held-out data have " + heldOutData.classes()
+                                + " classes, the training data " + fitted.classes());
+                    }
+                    heldOut = MulticlassObjective.of(heldOutData, multiclassLoss, penalty, intercept);
                 }
-                heldOut = MulticlassObjective.of(heldOutData, multiclassLoss, penalty, intercept);
+                blocks = fitted.classes();
+            } else {
+                if (data.targetKind() == TargetKind.CLASSES && data.classes() > 2) {
+                    throw new IllegalArgumentException("the dataset has " + data.classes() + " classes but the loss "
+                            + loss.name() + " is single-output; configure a multiclass loss");
+                }
+                objective = workers != null
+                        ? LinearObjective.of(fitted, loss, penalty, intercept, workers)
+                        : LinearObjective.of(fitted, loss, penalty, intercept);
+                if (heldOutData != null) {
+                    heldOut = LinearObjective.of(heldOutData, loss, penalty, intercept);
+                }
+                blocks = 1;
             }
-            blocks = fitted.classes();
-        } else {
-            if (data.targetKind() == TargetKind.CLASSES && data.classes() > 2) {
-                throw new IllegalArgumentException("the dataset has " + data.classes() + " classes but the loss "
-                        + loss.name() + " is single-output; configure a multiclass loss");
+            double[] h0 = options.initialParameters();
+            if (h0 == null) {
+                h0 = new double[objective.dimension()];
+            } else {
+                requireLength(h0, objective.dimension());
+                if (standardizer != null) {
+                    h0 = standardizer.fromOriginalScale(h0, blocks, intercept);
+                }
             }
-            objective = LinearObjective.of(fitted, loss, penalty, intercept);
-            if (heldOutData != null) {
-                heldOut = LinearObjective.of(heldOutData, loss, penalty, intercept);
+            int[] strata = sampling.needsStrata() ? strataOf(fitted) : null;
+            out = run(objective, heldOut, h0, strata, options);
+        } finally {
+            if (workers != null) {
+                workers.close();
             }
-            blocks = 1;
         }
-        double[] h0 = options.initialParameters();
-        if (h0 == null) {
-            h0 = new double[objective.dimension()];
-        } else {
-            requireLength(h0, objective.dimension());
-            if (standardizer != null) {
-                h0 = standardizer.fromOriginalScale(h0, blocks, intercept);
-            }
-        }
-        int[] strata = sampling.needsStrata() ? strataOf(fitted) : null;
-        FitLoop.Outcome out = run(objective, heldOut, h0, strata, options);
         double[] params = out.parameters();
         double[] last = out.lastIterate();
         if (standardizer != null) {
@@ -238,7 +256,11 @@ public final class Minimizer {
         long maxDraws = Double.isNaN(epochs) ? -1 : (long) Math.ceil(epochs * n);
         long planned = plannedSteps(maxDraws);
         StepSchedule steps = schedule != null ? schedule : defaultSchedule(objective, h0, stepsPerEpoch, calibrationRng);
-        BatchSource source = sampling.start(SamplingContext.of(n, strata, objective::sampleSmoothness), samplingRng);
+        SamplingContext context = SamplingContext.of(n, strata, objective::sampleSmoothness);
+        if (objective instanceof LinearObjective) {
+            context = context.withPrefetcher(((LinearObjective) objective)::prefetchRows);
+        }
+        BatchSource source = sampling.start(context, samplingRng);
         Updater updater = rule.start(objective, h0, stepsPerEpoch);
         RunInfo info = new RunInfo(n, objective.dimension(), batchSize, sampling.independentDraws(),
                 lossName(objective), penalty.name(), rule.name(), steps.name(), sampling.name(), planned, seed,
@@ -358,7 +380,7 @@ public final class Minimizer {
         return "Minimizer[loss=" + (multiclassLoss != null ? multiclassLoss.name() : loss.name()) + ", penalty="
                 + penalty.name() + ", rule=" + rule.name() + ", schedule="
                 + (schedule == null ? "default" : schedule.name()) + ", sampling=" + sampling.name() + ", batchSize="
-                + batchSize + ", averaging=" + averaging + ", seed=" + seed + "]";
+                + batchSize + ", averaging=" + averaging + ", seed=" + seed + (threads > 1 ? ", threads=" + threads : "") + "]";
     }
 
     /**
@@ -383,6 +405,8 @@ public final class Minimizer {
         private boolean intercept = true;
         private boolean standardize;
         private double explosionFactor = 1e6;
+        private int threads = 1;
+        private int parallelThreshold = GradientThreads.DEFAULT_PARALLEL_THRESHOLD;
 
         private Builder() {
         }
@@ -490,6 +514,43 @@ public final class Minimizer {
                 throw new IllegalArgumentException("explosionFactor (" + value + ") must be >= 1");
             }
             this.explosionFactor = value;
+            return this;
+        }
+
+        /**
+         * The number of threads T (default 1) that evaluate a batch gradient of at least
+         * {@link #parallelThreshold(int) parallelThreshold} draws together, the fitting thread included.
+         * The batch is cut into T contiguous chunks whose partial sums are added in a fixed order, so a
+         * fit is still bit-identical from run to run for a given T; its results differ from T = 1 only
+         * by rounding (see {@link LinearObjective#batchGradient}). The T − 1 daemon worker threads
+         * ({@code riskmin-gradient-1} …) are started at the first large batch of a fit and stopped
+         * before {@code fit} returns or throws. Applies to single-output linear models, dense or sparse,
+         * and to what update rules compute through the batch gradient (SGD, momentum, Nesterov, AdaGrad,
+         * Adam, SVRG; SAGA for linear models uses its own per-sample loop and stays on one thread);
+         * multiclass models and general objectives stay on one thread. Worth it only for large batches
+         * (B ≥ 1024 or so) on a machine with idle cores. A loss of your own is then called from several
+         * threads at once and must be stateless or thread-safe (the library's losses are).
+         *
+         * @throws IllegalArgumentException naming threads unless 1 ≤ value ≤ {@value GradientThreads#MAX_THREADS}
+         */
+        public Builder threads(int value) {
+            if (value < 1 || value > GradientThreads.MAX_THREADS) {
+                throw new IllegalArgumentException("threads (" + value + ") must be in [1, "
+                        + GradientThreads.MAX_THREADS + "]");
+            }
+            this.threads = value;
+            return this;
+        }
+
+        /**
+         * The smallest batch, in draws, whose gradient is split across {@link #threads(int) threads}
+         * (default {@value GradientThreads#DEFAULT_PARALLEL_THRESHOLD}); smaller batches are evaluated on
+         * the fitting thread alone, where handing work to another thread would cost more than it saves.
+         *
+         * @throws IllegalArgumentException naming parallelThreshold if the value is below 1
+         */
+        public Builder parallelThreshold(int value) {
+            this.parallelThreshold = Arguments.positive("parallelThreshold", value);
             return this;
         }
 

@@ -51,7 +51,9 @@ class AllocationFreeStepTest {
                 new Case("stratified", Minimizer.builder().stepSize(1e-3).batchSize(16)
                         .sampling(Sampling.stratified()), true),
                 new Case("importance", Minimizer.builder().stepSize(1e-3).batchSize(4)
-                        .sampling(Sampling.importance()), true));
+                        .sampling(Sampling.importance()), true),
+                new Case("block-shuffled with prefetch", Minimizer.builder().stepSize(1e-3).batchSize(3)
+                        .sampling(Sampling.blockShuffled(16)), true));
     }
 
     /** A listener that reads everything the view offers and probes at a cadence. */

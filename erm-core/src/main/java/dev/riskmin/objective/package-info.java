@@ -5,6 +5,9 @@
  * user plug in any differentiable parametric model.
  *
  * <p>Objectives hold scratch buffers: one instance serves one thread at a time (the fit loop makes
- * its own). Null is never a valid argument.
+ * its own). A {@link dev.riskmin.objective.LinearObjective} built with
+ * {@link dev.riskmin.objective.GradientThreads} splits large batch gradients across worker threads
+ * of its own, with a fixed reduction order; it is still called from one thread at a time. Null is
+ * never a valid argument.
  */
 package dev.riskmin.objective;

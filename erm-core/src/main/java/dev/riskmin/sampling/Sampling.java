@@ -52,6 +52,26 @@ public interface Sampling {
     }
 
     /**
+     * @return sampling without replacement that keeps memory locality: each epoch, a random rotation,
+     * a random order of blocks of {@value BlockShuffledSampling#DEFAULT_BLOCK_ROWS} consecutive rows
+     * and a random order of rows within each block; every draw is uniform and every sample is drawn
+     * once per epoch, but rows of one block tend to share a batch (see {@link BlockShuffledSampling});
+     * needs B ≤ n
+     */
+    static Sampling blockShuffled() {
+        return BlockShuffledSampling.of(BlockShuffledSampling.DEFAULT_BLOCK_ROWS);
+    }
+
+    /**
+     * @param blockRows m ≥ 1, the consecutive rows per block (1 gives plain sampling without replacement)
+     * @return block-shuffled sampling without replacement with blocks of m rows (see {@link BlockShuffledSampling})
+     * @throws IllegalArgumentException naming blockRows if it is below 1
+     */
+    static Sampling blockShuffled(int blockRows) {
+        return BlockShuffledSampling.of(blockRows);
+    }
+
+    /**
      * @return stratified draws: each batch keeps every stratum within ±1 of its proportional count,
      * without replacement inside a stratum (see {@link StratifiedSampling}); needs strata and B ≤ n
      */

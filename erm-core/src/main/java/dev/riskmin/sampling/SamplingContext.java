@@ -1,20 +1,24 @@
 package dev.riskmin.sampling;
 
+import dev.riskmin.util.Arguments;
 import java.util.function.IntToDoubleFunction;
 
 /**
- * What a sampler may know about the data: n, the strata (or null), and per-sample smoothness
- * constants L<sub>i</sub> (for importance sampling; +∞ where unknown).
+ * What a sampler may know about the data: n, the strata (or null), per-sample smoothness
+ * constants L<sub>i</sub> (for importance sampling; +∞ where unknown), and optionally a
+ * {@link RowPrefetcher} that samplers visiting storage in runs of rows may call.
  */
 public final class SamplingContext {
     private final int size;
     private final int[] strata;
     private final IntToDoubleFunction smoothness;
+    private final RowPrefetcher prefetcher; // null: none
 
-    private SamplingContext(int size, int[] strata, IntToDoubleFunction smoothness) {
+    private SamplingContext(int size, int[] strata, IntToDoubleFunction smoothness, RowPrefetcher prefetcher) {
         this.size = size;
         this.strata = strata;
         this.smoothness = smoothness;
+        this.prefetcher = prefetcher;
     }
 
     /**
@@ -29,7 +33,21 @@ public final class SamplingContext {
         if (strata != null && strata.length != size) {
             throw new IllegalArgumentException("strata have " + strata.length + " entries, expected " + size);
         }
-        return new SamplingContext(size, strata, smoothness);
+        return new SamplingContext(size, strata, smoothness, null);
+    }
+
+    /**
+     * @param value reads rows [from, to) of the training data ahead of their use (see
+     *              {@link RowPrefetcher}); only samplers that visit storage in runs call it
+     * @return a copy of this context with that prefetcher
+     */
+    public SamplingContext withPrefetcher(RowPrefetcher value) {
+        return new SamplingContext(size, strata, smoothness, Arguments.notNull("prefetcher", value));
+    }
+
+    /** @return the prefetcher given by {@link #withPrefetcher}, or null */
+    public RowPrefetcher prefetcher() {
+        return prefetcher;
     }
 
     /** @return n */

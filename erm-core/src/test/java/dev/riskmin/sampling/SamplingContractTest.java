@@ -20,7 +20,8 @@ class SamplingContractTest {
 
     static Stream<Sampling> samplings() {
         return Stream.of(Sampling.withReplacement(), Sampling.withoutReplacement(), Sampling.stratified(),
-                Sampling.importance(), Sampling.importance(0.2), Sampling.sequential());
+                Sampling.importance(), Sampling.importance(0.2), Sampling.sequential(), Sampling.blockShuffled(),
+                Sampling.blockShuffled(4));
     }
 
     static SamplingContext context() {
@@ -90,6 +91,7 @@ class SamplingContractTest {
         Sampling.sequential().checkBatchSize(N + 1, N);
         assertThrows(IllegalArgumentException.class, () -> Sampling.withoutReplacement().checkBatchSize(N + 1, N));
         assertThrows(IllegalArgumentException.class, () -> Sampling.stratified().checkBatchSize(N + 1, N));
+        assertThrows(IllegalArgumentException.class, () -> Sampling.blockShuffled().checkBatchSize(N + 1, N));
     }
 
     @Test
