@@ -84,8 +84,8 @@ final class LinearSgd implements Updater {
     /** @return whether this fast path applies: a single-output linear model with an elastic-net penalty */
     static boolean applies(Objective objective) {
         LinearStructure linear = objective.linearStructure();
-        if (linear == null || !objective.penalty().elasticNetForm()) {
-            return false;
+        if (linear == null || !objective.penalty().elasticNetForm() || linear.splitsBatches()) {
+            return false; // with threads, large batches go through the objective's parallel batch gradient
         }
         FeatureMatrix x = linear.features();
         int p = objective.dimension();

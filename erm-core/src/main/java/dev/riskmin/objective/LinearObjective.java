@@ -331,6 +331,11 @@ public final class LinearObjective extends PenalizedObjective implements LinearS
     }
 
     @Override
+    public boolean splitsBatches() {
+        return threads != null;
+    }
+
+    @Override
     public LinearStructure linearStructure() {
         return this;
     }

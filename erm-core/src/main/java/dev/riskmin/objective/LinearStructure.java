@@ -26,4 +26,12 @@ public interface LinearStructure {
 
     /** g[0..d) += scale · x<sub>i</sub>, and g[d] += scale when there is an intercept. */
     void addFeatures(int i, double scale, double[] g);
+
+    /**
+     * @return whether the objective splits large batch gradients across threads, in which case update
+     * rules should go through {@link Objective#batchGradient} rather than their own per-row loops
+     */
+    default boolean splitsBatches() {
+        return false;
+    }
 }
