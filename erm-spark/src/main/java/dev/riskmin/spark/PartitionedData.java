@@ -15,7 +15,7 @@ import java.util.List;
 /**
  * Rows held by Spark, converted once into cached blocks of the core's dense layout — one flat row-major
  * array of features, the targets and the weights per partition — ready for any number of fits, one after
- * another. Converting reads every cell once and checks it (see {@link Columns}); the blocks stay cached
+ * another or at the same time from several threads (close it after the last). Converting reads every cell once and checks it (see {@link Columns}); the blocks stay cached
  * (in memory, spilling to disk) until {@link #close()}.
  *
  * <p>Rows are numbered globally in partition order: row i of partition k has global index

@@ -55,6 +55,12 @@ import java.util.random.RandomGenerator;
  * mini-batch strategy from the current step, as in memory).</li>
  * </ul>
  *
+ * <p>Counts: the fit's first job (the objective, gradient and smoothness constants at h<sub>0</sub>) and
+ * its last (the objective at the result) are bookkeeping and, like the in-memory fit's starting estimate
+ * and final objective, not counted in the gradient evaluations; the first job's gradient also serves as
+ * the anchor of round 0 under SVRG rounds. The fit's {@code initialObjective} is therefore exact here, not
+ * an estimate. The view itself allocates nothing; a round allocates its job's closures and summaries.
+ *
  * <p>Divergence guard: as the core's — a non-finite batch loss, a smoothed batch loss beyond the
  * explosion limit, non-finite parameters, or a local run that diverged stops the fit with
  * {@link StopReason#DIVERGED} and the last finite parameters.
@@ -371,8 +377,12 @@ final class RoundLoop implements StepView, Probe, FitControl {
     private double[] afterLocalRound() {
         evaluations += summary.evaluations;
         recordBatch(summary);
-        System.arraycopy(summary.gradient, 0, g, 0, p);
-        penalty.addSmoothGradient(h, 0, d, 1.0, g);
+        if (summary.gradient == null) {
+            Arrays.fill(g, Double.NaN); // no local run took a step: they all diverged at once (see the divergence)
+        } else {
+            System.arraycopy(summary.gradient, 0, g, 0, p);
+            penalty.addSmoothGradient(h, 0, d, 1.0, g);
+        }
         double[] average = summary.parameters;
         double total = summary.shareSum;
         if (total != 1.0) {

@@ -8,6 +8,7 @@
  *
  * <p>Null policy: no argument may be null unless its documentation says so. Thread safety: configurations
  * ({@code DistributedMinimizer}, {@code Strategy}, {@code Columns}, {@code Recipe}s) are immutable; a
- * {@code PartitionedData} may serve several fits one after another, not at the same time.
+ * {@code PartitionedData} may serve several fits, also at the same time; each fit's state lives in its own
+ * driver loop.
  */
 package dev.riskmin.spark;
