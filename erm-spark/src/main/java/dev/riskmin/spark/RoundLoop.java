@@ -309,15 +309,15 @@ final class RoundLoop implements StepView, Probe, FitControl {
             }
             summaryNanos = System.nanoTime() - roundStartNanos;
             batchLoss = loss;
-            if (!Double.isFinite(loss)) {
-                reason = StopReason.DIVERGED;
-                detail = "the batch loss became " + loss + " in round " + round;
-                restoreLastFinite();
-                break;
-            }
             if (summary.divergence != null) {
                 reason = StopReason.DIVERGED;
                 detail = "a local run diverged in round " + round + ": " + summary.divergence;
+                restoreLastFinite();
+                break;
+            }
+            if (!Double.isFinite(loss)) {
+                reason = StopReason.DIVERGED;
+                detail = "the batch loss became " + loss + " in round " + round;
                 restoreLastFinite();
                 break;
             }
@@ -602,7 +602,8 @@ final class RoundLoop implements StepView, Probe, FitControl {
                 stepSize, batchLoss, gNorm, trace, variance, spread(s.gradientSquares, s.gradient, s.shareSum),
                 fullKnown && kind == Strategy.Kind.SVRG ? fullSpread : Double.NaN,
                 fullKnown ? fullObjective : Double.NaN, fullKnown ? Math.sqrt(dot(fullGradient, fullGradient)) : Double.NaN,
-                localSpread, moveNorm, moveCosine, summaryNanos, s.slowestNanos, s.totalNanos / partitions);
+                localSpread, kind == Strategy.Kind.LOCAL_SGD ? s.localObjective / s.shareSum : Double.NaN,
+                moveNorm, moveCosine, summaryNanos, s.slowestNanos, s.totalNanos / partitions);
         for (int l = 0; l < listeners.length; l++) {
             if (!detached[l] && listeners[l] instanceof RoundListener r) {
                 try {

@@ -26,6 +26,8 @@ package dev.riskmin.spark;
  * @param objective          L(h<sub>r</sub>) when the round aggregated the full gradient, else NaN
  * @param gradientNorm       ‖∇L(h<sub>r</sub>)‖ (smooth part) when known, else NaN
  * @param localModelSpread   Σ π<sub>k</sub> ‖h<sub>k</sub> − h̄‖² (local strategies): how far the local runs drifted apart
+ * @param localObjective     Σ π<sub>k</sub> L<sub>k</sub>(h<sub>k</sub>), the local runs' own objectives at their end
+ *                           (local SGD, which computes them anyway; NaN otherwise)
  * @param moveNorm           ‖h<sub>r+1</sub> − h<sub>r</sub>‖, 0 when a listener halted the fit this round
  * @param moveCosine         cos(h<sub>r+1</sub> − h<sub>r</sub>, −g<sub>B</sub>): 1 for a plain SGD step without penalty,
  *                           lower as local steps turn away from the round's first gradient
@@ -36,6 +38,6 @@ package dev.riskmin.spark;
 public record RoundReport(long round, String strategy, int partitions, int batchSize, double stepSize,
                           double batchLoss, double batchGradientNorm, double noiseTrace, double batchMeanVariance,
                           double gradientSpread, double fullGradientSpread, double objective, double gradientNorm,
-                          double localModelSpread, double moveNorm, double moveCosine, long roundNanos,
+                          double localModelSpread, double localObjective, double moveNorm, double moveCosine, long roundNanos,
                           long slowestPartitionNanos, long meanPartitionNanos) {
 }

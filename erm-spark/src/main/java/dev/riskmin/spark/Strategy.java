@@ -19,7 +19,10 @@ import dev.riskmin.util.Arguments;
  * π<sub>k</sub> = W<sub>k</sub>/W. With one round this is the one-shot averaging of Zinkevich, Weimer, Smola
  * &amp; Li (NIPS 2010); with H local steps between averages it is local SGD (Stich, ICLR 2019), which reaches
  * the rate of mini-batch SGD with up to √T fewer communications when the partitions hold similar data.
- * H = 1 is mini-batch SGD with batch P·B (for smooth penalties).</li>
+ * H = 1 is mini-batch SGD with batch P·B (for smooth penalties). Being a whole in-memory fit, a local run
+ * also pays what every fit pays once: it draws a fresh permutation for sampling without replacement, and
+ * evaluates its partition's objective at its end (n<sub>k</sub> loss evaluations); choose H·B of the order
+ * of n<sub>k</sub> or more, so that this stays a small part of the round.</li>
  * <li>{@link #svrg(int)}: each round first aggregates the full gradient μ = ∇L(h<sub>r</sub>) (one job, n
  * gradient evaluations), then every partition runs m inner steps along ĝ<sub>k</sub>(h) − ĝ<sub>k</sub>(h<sub>r</sub>) + μ
  * and the driver averages (Johnson &amp; Zhang, NIPS 2013, with local inner loops; see

@@ -158,6 +158,9 @@ class StrategyConvergenceTest {
             if (!distributed.strategy().name().startsWith("mini-batch")) {
                 assertTrue(Double.isFinite(r.localModelSpread()), r.toString());
             }
+            if (distributed.strategy().name().startsWith("local SGD")) {
+                assertTrue(Double.isFinite(r.localObjective()), r.toString());
+            }
         }
         assertTrue(diagnostics.verdict() != null);
     }
