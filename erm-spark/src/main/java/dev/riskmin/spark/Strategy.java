@@ -25,9 +25,10 @@ import dev.riskmin.util.Arguments;
  * of n<sub>k</sub> or more, so that this stays a small part of the round.</li>
  * <li>{@link #svrg(int)}: each round first aggregates the full gradient μ = ∇L(h<sub>r</sub>) (one job, n
  * gradient evaluations), then every partition runs m inner steps along ĝ<sub>k</sub>(h) − ĝ<sub>k</sub>(h<sub>r</sub>) + μ
- * and the driver averages (Johnson &amp; Zhang, NIPS 2013, with local inner loops; see
- * {@code PartitionWork.localSvrg}). Two jobs per round; no noise floor, so a constant step converges to the
- * optimum itself on strongly convex objectives.</li>
+ * and the driver averages (Johnson &amp; Zhang, NIPS 2013, with local inner loops as in the distributed
+ * variants of Lee, Lin, Ma &amp; Yang, JMLR 18, 2017, from memory). At the optimum every inner step is zero,
+ * so there is no noise floor: a constant step converges to the optimum itself on strongly convex
+ * objectives. Two jobs per round.</li>
  * </ul>
  */
 public final class Strategy {
