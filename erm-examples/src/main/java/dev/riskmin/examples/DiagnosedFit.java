@@ -109,7 +109,7 @@ public final class DiagnosedFit {
         EpochLog log = EpochLog.labelled(label).withMaxLines(epochLines);
         Diagnostics.Builder b = Diagnostics.builder()
                 .monitor(NoiseMonitor.defaults())
-                .monitor(AngleMonitor.defaults())
+                .monitor(AngleMonitor.defaults().withCadence(Cadence.share(measurementShare)))
                 .monitor(LossMonitor.defaults().withObjectiveCadence(Cadence.share(measurementShare))
                         .withHeldOutCadence(Cadence.share(measurementShare)))
                 .monitor(OscillationMonitor.defaults())
