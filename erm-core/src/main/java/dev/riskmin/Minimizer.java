@@ -255,7 +255,8 @@ public final class Minimizer {
         int stepsPerEpoch = (n + batchSize - 1) / batchSize;
         long maxDraws = Double.isNaN(epochs) ? -1 : (long) Math.ceil(epochs * n);
         long planned = plannedSteps(maxDraws);
-        StepSchedule steps = schedule != null ? schedule : defaultSchedule(objective, h0, stepsPerEpoch, calibrationRng);
+        double lMax = largestSmoothness(objective);
+        StepSchedule steps = schedule != null ? schedule : defaultSchedule(objective, h0, stepsPerEpoch, calibrationRng, lMax);
         SamplingContext context = SamplingContext.of(n, strata, objective::sampleSmoothness);
         if (objective instanceof LinearObjective) {
             context = context.withPrefetcher(((LinearObjective) objective)::prefetchRows);
@@ -264,7 +265,7 @@ public final class Minimizer {
         Updater updater = rule.start(objective, h0, stepsPerEpoch);
         RunInfo info = new RunInfo(n, objective.dimension(), batchSize, sampling.independentDraws(),
                 lossName(objective), penalty.name(), rule.name(), steps.name(), sampling.name(), planned, seed,
-                rule.varianceReduced(), heldOut != null);
+                rule.varianceReduced(), heldOut != null, lMax);
         long timeNanos = timeLimit == null ? -1 : timeLimit.toNanos();
         FitLoop.Settings settings = new FitLoop.Settings(updater, source, sampling, steps, averaging, batchSize,
                 maxSteps, maxDraws, maxEvaluations, timeNanos, explosionFactor, probeRng, info);
@@ -289,12 +290,17 @@ public final class Minimizer {
         return planned;
     }
 
-    private StepSchedule defaultSchedule(Objective objective, double[] h0, int stepsPerEpoch, RandomGenerator rng) {
+    /** @return L_max = max_i L_i + λ2 (+∞ for losses without a smoothness constant); one O(n) pass */
+    private static double largestSmoothness(Objective objective) {
         double lMax = 0;
         for (int i = 0, n = objective.size(); i < n; i++) {
             lMax = Math.max(lMax, objective.sampleSmoothness(i));
         }
-        lMax += objective.penalty().l2Strength();
+        return lMax + objective.penalty().l2Strength();
+    }
+
+    private StepSchedule defaultSchedule(Objective objective, double[] h0, int stepsPerEpoch, RandomGenerator rng,
+                                         double lMax) {
         if (Double.isFinite(lMax) && lMax > 0) {
             return StepSchedule.constant(rule.defaultStepSize(lMax));
         }

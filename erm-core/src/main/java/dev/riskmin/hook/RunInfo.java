@@ -17,8 +17,12 @@ package dev.riskmin.hook;
  * @param varianceReduced whether the update rule corrects its steps with control variates (SVRG, SAGA),
  *                        so that gradient noise does not set a floor on the accuracy
  * @param heldOut         whether the fit was given held-out data ({@link Probe#heldOutLoss()} works)
+ * @param largestSmoothness L<sub>max</sub> = max<sub>i</sub> L<sub>i</sub> + λ<sub>2</sub>, the largest per-sample
+ *                        smoothness constant plus the L2 strength (1/L<sub>max</sub> is a safe plain-SGD step);
+ *                        +∞ for losses without one, NaN when not computed
  */
 public record RunInfo(int sampleCount, int dimension, int batchSize, boolean withReplacement, String loss,
                       String penalty, String updateRule, String schedule, String sampling, long plannedSteps,
-                      long seed, boolean varianceReduced, boolean heldOut) {
+                      long seed, boolean varianceReduced, boolean heldOut,
+                      double largestSmoothness) {
 }

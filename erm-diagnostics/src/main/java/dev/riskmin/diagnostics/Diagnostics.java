@@ -103,6 +103,7 @@ public final class Diagnostics implements FitListener {
         summary.batchSize = info.batchSize();
         summary.independentDraws = info.withReplacement();
         summary.varianceReduced = info.varianceReduced();
+        summary.largestSmoothness = info.largestSmoothness();
         context.reset(info.dimension());
         for (int m = 0; m < monitors.size(); m++) {
             try {

@@ -258,7 +258,7 @@ final class RoundLoop implements StepView, Probe, FitControl {
         }
         RunInfo info = new RunInfo(sampleCount(), p, viewBatchSize(), parts.sampling().independentDraws(),
                 parts.loss().name(), penalty.name(), ruleName(), schedule.name(), parts.sampling().name(),
-                plannedRounds(), plan.seed, varianceReduced(), heldOut != null);
+                plannedRounds(), plan.seed, varianceReduced(), heldOut != null, Double.NaN);
         for (int l = 0; l < listeners.length; l++) {
             try {
                 listeners[l].started(info);

@@ -24,6 +24,8 @@ public final class RunSummary {
     public double stepSize = Double.NaN;
     /** Whether batches were drawn with replacement (i.i.d.). */
     public boolean independentDraws;
+    /** L<sub>max</sub> = max<sub>i</sub> L<sub>i</sub> + λ<sub>2</sub> from the run's facts (NaN when unknown, +∞ when none exists). */
+    public double largestSmoothness = Double.NaN;
     /** Whether the update rule is variance-reduced (SVRG, SAGA), so gradient noise sets no accuracy floor. */
     public boolean varianceReduced;
 

@@ -16,7 +16,8 @@ import java.util.Map;
  * B<sub>s</sub> = tr Σ/‖G‖² the noise scale (McCandlish, Kaplan, Amodei et al., "An Empirical Model
  * of Large-Batch Training", arXiv:1812.06162, 2018).
  * <ol>
- * <li><b>DIVERGED</b> — the fit stopped with {@link StopReason#DIVERGED}. Advice: a step size ten times
+ * <li><b>DIVERGED</b> — the fit stopped with {@link StopReason#DIVERGED}. Advice: 1/L<sub>max</sub> when the
+ * run's largest per-sample smoothness constant is known and below a tenth of the step; otherwise a step size ten times
  * smaller, ε/10.</li>
  * <li><b>CONVERGED</b> (by the gradient) — ‖G‖ fell to at most {@value #CONVERGED_GRADIENT_RATIO} of its
  * first measured value.</li>
@@ -94,14 +95,25 @@ public final class VerdictRules {
         double eps = s.stepSize;
 
         if (s.stopReason == StopReason.DIVERGED) {
-            figures.put("suggestedStepSize", eps / 10);
+            double safe = s.largestSmoothness > 0 && Double.isFinite(s.largestSmoothness)
+                    ? 1.0 / s.largestSmoothness : Double.NaN;
+            String advice;
+            if (Double.isFinite(eps) && Double.isFinite(safe) && safe < eps / 10) {
+                // A tenth of an absurd step is still absurd: 1/L_max is a step plain SGD cannot overshoot
+                // with (each sample's gradient is L_max-Lipschitz; METHODS §9, §11).
+                figures.put("suggestedStepSize", safe);
+                advice = fmt("cut the step size to about %s = 1/L_max (the largest per-sample smoothness"
+                        + " constant L_max is %s), not just tenfold", sig(safe), sig(s.largestSmoothness));
+            } else {
+                figures.put("suggestedStepSize", eps / 10);
+                advice = Double.isFinite(eps)
+                        ? fmt("cut the step size tenfold, to about %s", sig(eps / 10))
+                        : "cut the step size tenfold";
+            }
             return new HealthVerdict(Condition.DIVERGED,
                     fmt("the run diverged after %d steps (%s epochs) at step size %s: %s.", s.steps, sig(s.epochs),
                             sig(eps), s.stopDetail == null || s.stopDetail.isEmpty() ? "no detail" : s.stopDetail),
-                    Double.isFinite(eps)
-                            ? fmt("cut the step size tenfold, to about %s", sig(eps / 10))
-                            : "cut the step size tenfold",
-                    figures);
+                    advice, figures);
         }
 
         if (s.gradientNorm == 0 || gradientRatio <= CONVERGED_GRADIENT_RATIO) {

@@ -24,7 +24,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 /**
  * With an absurd step size on every loss and every update rule, the diagnostics' verdict — the one
  * read from the host and the one published as an event — says DIVERGED, and its advice names a
- * smaller step size: a tenth of the last step (the figure {@code suggestedStepSize}). The fits'
+ * smaller step size: 1/L<sub>max</sub> when the loss has a smoothness constant and that is below a tenth
+ * of the last step, else a tenth of the last step (the figure {@code suggestedStepSize}). The fits'
  * own stop reasons are checked in {@code DivergenceOnEveryLossAndRuleTest}.
  */
 class DivergenceVerdictTest {
@@ -56,7 +57,11 @@ class DivergenceVerdictTest {
         double seen = verdict.figures().get("stepSize");
         double suggested = verdict.figures().get("suggestedStepSize");
         assertEquals(step, seen, 0.0, "the step size the verdict saw");
-        assertEquals(seen / 10, suggested, 0.0);
+        double lMax = diagnostics.run().largestSmoothness();
+        double safe = lMax > 0 && Double.isFinite(lMax) ? 1 / lMax : Double.NaN;
+        // A tenth of the step, or 1/L_max when the loss has a smoothness constant and that is smaller.
+        assertEquals(Double.isFinite(safe) && safe < seen / 10 ? safe : seen / 10, suggested, 0.0);
+        assertTrue(suggested < seen, "a smaller step");
         assertTrue(verdict.advice().startsWith("cut the step size") && verdict.advice().contains("about"),
                 verdict.advice());
         List<?> events = recorder.events(EventKind.VERDICT);

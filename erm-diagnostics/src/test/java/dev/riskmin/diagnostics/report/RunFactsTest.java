@@ -16,7 +16,7 @@ class RunFactsTest {
     @Test
     void runInfoGivesItsFactsInOrderAndWithReplacesInPlace() {
         RunInfo run = new RunInfo(2000, 9, 16, false, "logistic", "l2(0.01)", "sgd", "constant(0.1)", "uniform",
-                3750, 7, false, true);
+                3750, 7, false, true, Double.NaN);
         RunFacts facts = RunFacts.of(run);
         List<String> names = facts.entries().stream().map(Map.Entry::getKey).toList();
         assertEquals(List.of("samples n", "parameters p", "loss", "penalty", "update rule", "step schedule", "sampling",

@@ -138,13 +138,25 @@ class VerdictEndToEndTest {
     }
 
     @Test
-    void absurdStepIsJudgedDivergedWithATenTimesSmallerStep() {
+    void absurdStepIsJudgedDivergedWithTheSafeStep() {
         LeastSquaresProblem problem = LeastSquaresProblem.gaussian(17, 500, 4, 0.5);
         Run run = run(Minimizer.builder().stepSize(5.0).epochs(2).seed(1).build(), problem, 10);
         assertEquals(StopReason.DIVERGED, run.fit().stopReason(), run.fit().toString());
         HealthVerdict v = run.verdict();
         assertEquals(Condition.DIVERGED, v.condition(), v.toString());
-        assertEquals(0.5, adviceNumber(v), 1e-12, v.advice());
+        // Step 5 with L_max ≈ 19.9 (max ‖(x_i, 1)‖² of the data): 1/L_max is below a tenth of the step,
+        // so the advice is the safe step 1/L_max, computed here independently from the rows.
+        double lMax = 0;
+        for (double[] row : problem.x) {
+            double norm = 1;
+            for (double v2 : row) {
+                norm += v2 * v2;
+            }
+            lMax = Math.max(lMax, norm);
+        }
+        assertEquals(1 / lMax, v.figures().get("suggestedStepSize"), 1e-12, v.advice());
+        assertEquals(Double.parseDouble(String.format(java.util.Locale.ROOT, "%.3g", 1 / lMax)), adviceNumber(v),
+                1e-12, v.advice());
         assertTrue(v.summary().contains(run.fit().stopDetail()), v.summary());
         VerdictEvent published = run.recorder().latestVerdict().orElseThrow();
         assertEquals(v, published.verdict());

@@ -47,6 +47,23 @@ class VerdictRulesTest {
     }
 
     @Test
+    void divergedRunWithAKnownSmoothnessConstantAdvisesTheSafeStep() {
+        // 1/L_max is a step plain SGD cannot overshoot with when every sample's gradient is
+        // L_max-Lipschitz (METHODS §9, §11); a tenth of an absurd step would still be absurd.
+        RunSummary s = base();
+        s.stopReason = StopReason.DIVERGED;
+        s.stopDetail = "the batch loss became Infinity at step 3";
+        s.stepSize = 1e6;
+        s.largestSmoothness = 4.0;
+        HealthVerdict v = VerdictRules.judge(s);
+        assertEquals(Condition.DIVERGED, v.condition());
+        assertEquals(0.25, v.figures().get("suggestedStepSize"), 0.0);
+        assertTrue(v.advice().contains("0.25 = 1/L_max") && v.advice().contains("L_max is 4"), v.advice());
+        s.stepSize = 1.0; // a tenth of it (0.1) is already below 1/L_max: keep the tenfold cut
+        assertEquals(0.1, VerdictRules.judge(s).figures().get("suggestedStepSize"), 1e-15);
+    }
+
+    @Test
     void divergedRunWithoutAKnownStepStillAdvisesATenfoldCut() {
         RunSummary s = base();
         s.stopReason = StopReason.DIVERGED;
