@@ -44,8 +44,11 @@ final class LinearSgd implements Updater {
     private final boolean intercept;
     private final double l1;
     private final double l2;
-    private final double[] v;
-    private final double[] applied;     // q_j, per coordinate (L1 only)
+    private final double[] v;           // dense, or sparse without L1
+    private final double[] applied;     // q_j, per coordinate (dense with L1)
+    // Sparse with L1: v_j and q_j side by side (pairs[2j], pairs[2j+1]), so that a non-zero touches
+    // one cache line, not two random lines of two large arrays.
+    private final double[] pairs;
     private double scale = 1.0;         // s
     private double budget;              // u
     private double b;
@@ -76,8 +79,18 @@ final class LinearSgd implements Updater {
         Penalty penalty = objective.penalty();
         this.l1 = penalty.l1Strength();
         this.l2 = penalty.l2Strength();
-        this.v = Arrays.copyOf(h0, d);
-        this.applied = l1 > 0 ? new double[d] : null;
+        if (denseX == null && l1 > 0) {
+            this.v = null;
+            this.applied = null;
+            this.pairs = new double[2 * d];
+            for (int j = 0; j < d; j++) {
+                pairs[2 * j] = h0[j];
+            }
+        } else {
+            this.v = Arrays.copyOf(h0, d);
+            this.applied = l1 > 0 ? new double[d] : null;
+            this.pairs = null;
+        }
         this.b = intercept ? h0[d] : 0.0;
     }
 
@@ -109,12 +122,38 @@ final class LinearSgd implements Updater {
         return (long) batchSize * perRow;
     }
 
+    /** As {@link #catchUp} for the interleaved (sparse, L1) layout; returns the up-to-date v_j. */
+    private double catchUpPair(int j) {
+        int at = 2 * j;
+        double x = pairs[at];
+        double pending = budget - pairs[at + 1];
+        if (pending > 0) {
+            // Soft threshold without a data-dependent branch: coefficient signs are random, and a
+            // mispredicted branch per non-zero costs more than the arithmetic.
+            x = Math.copySign(Math.max(Math.abs(x) - pending, 0.0), x);
+            pairs[at] = x;
+        }
+        pairs[at + 1] = budget;
+        return x;
+    }
+
+    /** @return v_j after every pending threshold (O(1); for the O(d) paths) */
+    private double coefficient(int j) {
+        if (pairs != null) {
+            return catchUpPair(j);
+        }
+        if (applied != null) {
+            catchUp(j);
+        }
+        return v[j];
+    }
+
     /** Applies the L1 thresholds coordinate j has missed since it was last read. */
     private void catchUp(int j) {
         double pending = budget - applied[j];
         if (pending > 0) {
             double x = v[j];
-            v[j] = x > pending ? x - pending : (x < -pending ? x + pending : 0.0);
+            v[j] = Math.copySign(Math.max(Math.abs(x) - pending, 0.0), x);
         }
         applied[j] = budget;
     }
@@ -149,13 +188,13 @@ final class LinearSgd implements Updater {
                     s0 += denseX[base + j] * v[j];
                 }
                 dot = (s0 + s1) + (s2 + s3);
+            } else if (pairs != null) {
+                for (int e = rowStart[i], end = rowStart[i + 1]; e < end; e++) {
+                    dot += values[e] * catchUpPair(columns[e]);
+                }
             } else {
                 for (int e = rowStart[i], end = rowStart[i + 1]; e < end; e++) {
-                    int j = columns[e];
-                    if (applied != null) {
-                        catchUp(j);
-                    }
-                    dot += values[e] * v[j];
+                    dot += values[e] * v[columns[e]];
                 }
             }
             double z = scale * dot + b;
@@ -197,6 +236,10 @@ final class LinearSgd implements Updater {
                 for (int j = 0; j < d; j++) {
                     v[j] -= c * denseX[base + j];
                 }
+            } else if (pairs != null) {
+                for (int e = rowStart[i], end = rowStart[i + 1]; e < end; e++) {
+                    pairs[2 * columns[e]] -= c * values[e];
+                }
             } else {
                 for (int e = rowStart[i], end = rowStart[i + 1]; e < end; e++) {
                     v[columns[e]] -= c * values[e];
@@ -215,11 +258,16 @@ final class LinearSgd implements Updater {
     private void writeOut(double factor) {
         double c = factor * scale;
         for (int j = 0; j < d; j++) {
-            if (applied != null) {
-                catchUp(j);
-                applied[j] = 0.0;
+            double x = coefficient(j) * c;
+            if (pairs != null) {
+                pairs[2 * j] = x;
+                pairs[2 * j + 1] = 0.0;
+            } else {
+                v[j] = x;
+                if (applied != null) {
+                    applied[j] = 0.0;
+                }
             }
-            v[j] *= c;
         }
         budget = 0.0;
         scale = 1.0;
@@ -228,10 +276,7 @@ final class LinearSgd implements Updater {
     @Override
     public void materialize(double[] h) {
         for (int j = 0; j < d; j++) {
-            if (applied != null) {
-                catchUp(j);
-            }
-            h[j] = scale * v[j];
+            h[j] = scale * coefficient(j);
         }
         if (intercept) {
             h[d] = b;
@@ -246,10 +291,7 @@ final class LinearSgd implements Updater {
         }
         if (l2 > 0) {
             for (int j = 0; j < d; j++) {
-                if (applied != null) {
-                    catchUp(j);
-                }
-                gradient[j] += l2 * scale * v[j];
+                gradient[j] += l2 * scale * coefficient(j);
             }
         }
     }
