@@ -44,6 +44,7 @@ public final class Diagnostics implements FitListener {
     private RunSummary summary = new RunSummary();
     private RunInfo run;
     private HealthVerdict verdict;
+    private long draws;
 
     private Diagnostics(Builder b) {
         this.monitors = List.copyOf(b.monitors);
@@ -81,12 +82,23 @@ public final class Diagnostics implements FitListener {
 
     /** @return the summary of the run so far (live: updated as the fit goes on) */
     public RunSummary summary() {
+        refreshEpochs();
         return summary;
     }
 
     /** @return the verdict on the run so far (the final one after the fit ends) */
     public HealthVerdict verdict() {
-        return verdict != null ? verdict : VerdictRules.judge(summary);
+        if (verdict != null) {
+            return verdict;
+        }
+        refreshEpochs();
+        return VerdictRules.judge(summary);
+    }
+
+    private void refreshEpochs() {
+        if (run != null && run.sampleCount() > 0) {
+            summary.epochs = (double) draws / run.sampleCount();
+        }
     }
 
     /** @return one line per monitor or subscriber that threw and was detached */
@@ -99,6 +111,7 @@ public final class Diagnostics implements FitListener {
         this.run = info;
         this.summary = new RunSummary();
         this.verdict = null;
+        this.draws = 0;
         summary.sampleCount = info.sampleCount();
         summary.batchSize = info.batchSize();
         summary.independentDraws = info.withReplacement();
@@ -118,7 +131,7 @@ public final class Diagnostics implements FitListener {
     public void step(StepView view, FitControl control) {
         context.at(view, control);
         summary.steps = view.step();
-        summary.epochs = (double) view.draws() / view.sampleCount();
+        draws = view.draws(); // epochs = draws / n is formed when read, not at every step
         summary.stepSize = view.stepSize();
         summary.batchSize = view.batchLength();
         for (int m = 0; m < monitors.size(); m++) {
