@@ -2,6 +2,7 @@ package dev.riskmin;
 
 import dev.riskmin.hook.FitControl;
 import dev.riskmin.hook.FitListener;
+import dev.riskmin.hook.ListenerGroup;
 import dev.riskmin.hook.Probe;
 import dev.riskmin.hook.RunInfo;
 import dev.riskmin.hook.StepView;
@@ -12,10 +13,8 @@ import dev.riskmin.sampling.BatchSource;
 import dev.riskmin.sampling.Sampling;
 import dev.riskmin.step.StepSchedule;
 import dev.riskmin.util.Allocations;
-import org.slf4j.Logger;
-import org.slf4j.LoggerFactory;
+import dev.riskmin.util.Arguments;
 
-import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.random.RandomGenerator;
@@ -43,7 +42,6 @@ import java.util.random.RandomGenerator;
  * close to the optimum.
  */
 final class FitLoop implements StepView, Probe, FitControl {
-    private static final Logger LOG = LoggerFactory.getLogger(FitLoop.class);
     static final int CHECK_EVERY = 16;
     private static final int BASELINE_SAMPLES = 4096;
     private static final double LOSS_SMOOTHING = 0.1;
@@ -67,9 +65,7 @@ final class FitLoop implements StepView, Probe, FitControl {
     private final Settings settings;
     private final int n;
     private final int p;
-    private final FitListener[] listeners;
-    private final boolean[] detached;
-    private final List<String> failures = new ArrayList<>();
+    private final ListenerGroup listeners;
     private final CancellationToken token;
     private final Averaging.Accumulator averager;
 
@@ -106,8 +102,7 @@ final class FitLoop implements StepView, Probe, FitControl {
         this.settings = settings;
         this.n = objective.size();
         this.p = objective.dimension();
-        this.listeners = listeners.toArray(new FitListener[0]);
-        this.detached = new boolean[this.listeners.length];
+        this.listeners = ListenerGroup.of(listeners);
         this.token = token;
         this.start = h0;
         this.h = h0.clone();
@@ -144,13 +139,7 @@ final class FitLoop implements StepView, Probe, FitControl {
     Outcome run() {
         startNanos = System.nanoTime();
         double baseline = estimateObjective();
-        for (int l = 0; l < listeners.length; l++) {
-            try {
-                listeners[l].started(settings.info());
-            } catch (Exception | AssertionError e) {
-                detach(l, "started", e);
-            }
-        }
+        listeners.started(settings.info());
         StopReason reason = null;
         String detail = "";
         if (!Double.isFinite(baseline)) {
@@ -282,7 +271,7 @@ final class FitLoop implements StepView, Probe, FitControl {
         }
         long nanos = System.nanoTime() - startNanos;
         return new Outcome(n, result, h.clone(), averaged, reason, detail, t, draws, updater.gradientEvaluations(),
-                probeEvaluations, nanos, baseline, finalObjective, stepFactor, batchSize, failures);
+                probeEvaluations, nanos, baseline, finalObjective, stepFactor, batchSize, listeners.failures());
     }
 
     /** @return whether the objective ended far above its start, or not finite (w·x overflowed at the end) */
@@ -354,48 +343,14 @@ final class FitLoop implements StepView, Probe, FitControl {
 
     private void notifyStep() {
         inListeners = true;
-        for (int l = 0; l < listeners.length; l++) {
-            if (!detached[l]) {
-                try {
-                    listeners[l].step(this, this);
-                } catch (Exception | AssertionError e) {
-                    detach(l, "step", e);
-                }
-            }
-        }
+        listeners.step(this, this);
         inListeners = false;
     }
 
     private void notifyEpochEnd() {
         inListeners = true;
-        for (int l = 0; l < listeners.length; l++) {
-            if (!detached[l]) {
-                try {
-                    listeners[l].epochEnded(this, this);
-                } catch (Exception | AssertionError e) {
-                    detach(l, "epochEnded", e);
-                }
-            }
-        }
+        listeners.epochEnded(this, this);
         inListeners = false;
-    }
-
-    /** Informs the listeners of the finished fit; a failure here is only logged. */
-    static void notifyFinished(List<FitListener> listeners, Fit fit) {
-        for (FitListener listener : listeners) {
-            try {
-                listener.finished(fit);
-            } catch (Exception | AssertionError e) {
-                LOG.warn("listener {} failed in finished(): {}", listener.getClass().getName(), e.toString());
-            }
-        }
-    }
-
-    private void detach(int l, String where, Throwable e) {
-        detached[l] = true;
-        String line = listeners[l].getClass().getName() + " threw in " + where + "() at step " + t + ": " + e;
-        failures.add(line);
-        LOG.warn("listener detached for the rest of the fit: {}", line, e);
     }
 
     // ---- StepView -------------------------------------------------------------------------------
@@ -622,14 +577,7 @@ final class FitLoop implements StepView, Probe, FitControl {
 
     @Override
     public void restoreParameters(double[] parameters) {
-        if (parameters.length != p) {
-            throw new IllegalArgumentException("restored parameters have " + parameters.length + " entries, expected " + p);
-        }
-        for (int j = 0; j < p; j++) {
-            if (!Double.isFinite(parameters[j])) {
-                throw new IllegalArgumentException("restored parameters[" + j + "] is " + parameters[j]);
-            }
-        }
+        Arguments.finiteVector("restored parameters", parameters, p);
         if (restored == null) {
             restored = new double[p];
         }

@@ -3,6 +3,7 @@ package dev.riskmin;
 import dev.riskmin.data.Dataset;
 import dev.riskmin.data.Standardizer;
 import dev.riskmin.data.TargetKind;
+import dev.riskmin.hook.ListenerGroup;
 import dev.riskmin.hook.RunInfo;
 import dev.riskmin.loss.Loss;
 import dev.riskmin.loss.MulticlassLoss;
@@ -239,7 +240,7 @@ public final class Minimizer {
                 (double) out.draws() / out.sampleCount(), out.gradientEvaluations(),
                 out.probeEvaluations(), Duration.ofNanos(out.nanos()), out.initialObjective(), out.finalObjective(),
                 out.stepSizeFactor(), out.batchSize(), out.listenerFailures(), standardized);
-        FitLoop.notifyFinished(options.listenerList(), fit);
+        ListenerGroup.finished(options.listenerList(), fit);
         return fit;
     }
 
@@ -485,11 +486,7 @@ public final class Minimizer {
         }
 
         public Builder timeLimit(Duration value) {
-            Arguments.notNull("timeLimit", value);
-            if (value.isNegative() || value.isZero()) {
-                throw new IllegalArgumentException("timeLimit (" + value + ") must be > 0");
-            }
-            this.timeLimit = value;
+            this.timeLimit = Arguments.positive("timeLimit", value);
             return this;
         }
 
@@ -515,11 +512,7 @@ public final class Minimizer {
 
         /** The divergence guard's factor (default 1e6): see {@link StopReason#DIVERGED}. */
         public Builder explosionFactor(double value) {
-            Arguments.positive("explosionFactor", value);
-            if (value < 1) {
-                throw new IllegalArgumentException("explosionFactor (" + value + ") must be >= 1");
-            }
-            this.explosionFactor = value;
+            this.explosionFactor = Arguments.atLeast("explosionFactor", value, 1.0);
             return this;
         }
 

@@ -80,4 +80,37 @@ public final class Arguments {
         }
         return value;
     }
+
+    /**
+     * @throws IllegalArgumentException naming the vector if its length is not {@code length}, or naming
+     *                                  the index and value of its first non-finite entry
+     */
+    public static double[] finiteVector(String name, double[] values, int length) {
+        if (values.length != length) {
+            throw new IllegalArgumentException(name + " have " + values.length + " entries, expected " + length);
+        }
+        for (int j = 0; j < length; j++) {
+            if (!Double.isFinite(values[j])) {
+                throw new IllegalArgumentException(name + "[" + j + "] is " + values[j]);
+            }
+        }
+        return values;
+    }
+
+    /** @throws IllegalArgumentException naming the option if the duration is not positive */
+    public static java.time.Duration positive(String name, java.time.Duration value) {
+        notNull(name, value);
+        if (value.isNegative() || value.isZero()) {
+            throw new IllegalArgumentException(name + " (" + value + ") must be > 0");
+        }
+        return value;
+    }
+
+    /** @throws IllegalArgumentException if {@code value} is not finite and at least {@code min} */
+    public static double atLeast(String name, double value, double min) {
+        if (!(value >= min) || Double.isInfinite(value)) {
+            throw new IllegalArgumentException(name + " (" + value + ") must be finite and >= " + min);
+        }
+        return value;
+    }
 }

@@ -314,11 +314,7 @@ public final class DistributedMinimizer {
         }
 
         public Builder timeLimit(Duration value) {
-            Arguments.notNull("timeLimit", value);
-            if (value.isNegative() || value.isZero()) {
-                throw new IllegalArgumentException("timeLimit (" + value + ") must be > 0");
-            }
-            this.timeLimit = value;
+            this.timeLimit = Arguments.positive("timeLimit", value);
             return this;
         }
 
@@ -336,11 +332,7 @@ public final class DistributedMinimizer {
 
         /** The divergence guard's factor (default 1e6), as the in-memory minimizer's. */
         public Builder explosionFactor(double value) {
-            Arguments.positive("explosionFactor", value);
-            if (value < 1) {
-                throw new IllegalArgumentException("explosionFactor (" + value + ") must be >= 1");
-            }
-            this.explosionFactor = value;
+            this.explosionFactor = Arguments.atLeast("explosionFactor", value, 1.0);
             return this;
         }
 

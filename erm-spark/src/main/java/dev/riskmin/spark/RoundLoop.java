@@ -7,6 +7,7 @@ import dev.riskmin.StopReason;
 import dev.riskmin.data.Dataset;
 import dev.riskmin.hook.FitControl;
 import dev.riskmin.hook.FitListener;
+import dev.riskmin.hook.ListenerGroup;
 import dev.riskmin.hook.Probe;
 import dev.riskmin.hook.RunInfo;
 import dev.riskmin.hook.StepView;
@@ -19,9 +20,8 @@ import dev.riskmin.penalty.Penalty;
 import dev.riskmin.spark.PartitionWork.SampleRows;
 import dev.riskmin.spark.PartitionWork.Shares;
 import dev.riskmin.step.StepSchedule;
+import dev.riskmin.util.Arguments;
 import org.apache.spark.api.java.JavaRDD;
-import org.slf4j.Logger;
-import org.slf4j.LoggerFactory;
 
 import java.time.Duration;
 import java.util.ArrayList;
@@ -66,7 +66,6 @@ import java.util.random.RandomGenerator;
  * {@link StopReason#DIVERGED} and the last finite parameters.
  */
 final class RoundLoop implements StepView, Probe, FitControl {
-    private static final Logger LOG = LoggerFactory.getLogger(RoundLoop.class);
     private static final double LOSS_SMOOTHING = 0.1;
     /** The indices handed to the driver's update rule, which its objective ignores (the batch is distributed). */
     private static final int[] NO_ROWS = new int[0];
@@ -86,9 +85,8 @@ final class RoundLoop implements StepView, Probe, FitControl {
     private final int d;
     private final int p;
     private final int depth;
-    private final FitListener[] listeners;
-    private final boolean[] detached;
-    private final List<String> failures = new ArrayList<>();
+    private final ListenerGroup listeners;
+    private final List<FitListener> listenerList;
     private final CancellationToken token;
     private final LinearObjective heldOut;
     private final Averaging.Accumulator averager;
@@ -153,8 +151,8 @@ final class RoundLoop implements StepView, Probe, FitControl {
         this.d = data.dimension();
         this.p = plan.intercept ? d + 1 : d;
         this.depth = config.treeDepth();
-        this.listeners = options.listenerList().toArray(new FitListener[0]);
-        this.detached = new boolean[listeners.length];
+        this.listeners = ListenerGroup.of(options.listenerList());
+        this.listenerList = options.listenerList();
         this.token = options.cancellation();
         double[] h0 = options.initialParameters();
         if (h0 == null) {
@@ -259,13 +257,7 @@ final class RoundLoop implements StepView, Probe, FitControl {
         RunInfo info = new RunInfo(sampleCount(), p, viewBatchSize(), parts.sampling().independentDraws(),
                 parts.loss().name(), penalty.name(), ruleName(), schedule.name(), parts.sampling().name(),
                 plannedRounds(), plan.seed, varianceReduced(), heldOut != null, Double.NaN);
-        for (int l = 0; l < listeners.length; l++) {
-            try {
-                listeners[l].started(info);
-            } catch (RuntimeException | AssertionError e) {
-                detach(l, "started", e);
-            }
-        }
+        listeners.started(info);
         StopReason reason = null;
         String detail = "";
         if (!Double.isFinite(baseline)) {
@@ -421,16 +413,10 @@ final class RoundLoop implements StepView, Probe, FitControl {
                 .objectives(baseline, finalObjective)
                 .stepSizeFactor(stepFactor)
                 .finalBatchSize(batchSize)
-                .listenerFailures(failures)
+                .listenerFailures(listeners.failures())
                 .standardized(false)
                 .build();
-        for (FitListener listener : listeners) {
-            try {
-                listener.finished(fit);
-            } catch (RuntimeException | AssertionError e) {
-                LOG.warn("listener {} failed in finished(): {}", listener.getClass().getName(), e.toString());
-            }
-        }
+        ListenerGroup.finished(listenerList, fit);
         return fit;
     }
 
@@ -566,8 +552,8 @@ final class RoundLoop implements StepView, Probe, FitControl {
 
     private void report(long atStart, boolean moved) {
         boolean roundListeners = false;
-        for (int l = 0; l < listeners.length; l++) {
-            roundListeners |= !detached[l] && listeners[l] instanceof RoundListener;
+        for (int l = 0; l < listeners.size(); l++) {
+            roundListeners |= listeners.attached(l) && listeners.get(l) instanceof RoundListener;
         }
         if (!roundListeners) {
             return;
@@ -604,12 +590,12 @@ final class RoundLoop implements StepView, Probe, FitControl {
                 fullKnown ? fullObjective : Double.NaN, fullKnown ? Math.sqrt(dot(fullGradient, fullGradient)) : Double.NaN,
                 localSpread, kind == Strategy.Kind.LOCAL_SGD ? s.localObjective / s.shareSum : Double.NaN,
                 moveNorm, moveCosine, summaryNanos, s.slowestNanos, s.totalNanos / partitions);
-        for (int l = 0; l < listeners.length; l++) {
-            if (!detached[l] && listeners[l] instanceof RoundListener r) {
+        for (int l = 0; l < listeners.size(); l++) {
+            if (listeners.attached(l) && listeners.get(l) instanceof RoundListener r) {
                 try {
                     r.roundEnded(report);
-                } catch (RuntimeException | AssertionError e) {
-                    detach(l, "roundEnded", e);
+                } catch (Exception | AssertionError e) {
+                    listeners.detach(l, "roundEnded", round, e);
                 }
             }
         }
@@ -636,37 +622,14 @@ final class RoundLoop implements StepView, Probe, FitControl {
 
     private void notifyStep() {
         inListeners = true;
-        for (int l = 0; l < listeners.length; l++) {
-            if (!detached[l]) {
-                try {
-                    listeners[l].step(this, this);
-                } catch (RuntimeException | AssertionError e) {
-                    detach(l, "step", e);
-                }
-            }
-        }
+        listeners.step(this, this);
         inListeners = false;
     }
 
     private void notifyEpochEnd() {
         inListeners = true;
-        for (int l = 0; l < listeners.length; l++) {
-            if (!detached[l]) {
-                try {
-                    listeners[l].epochEnded(this, this);
-                } catch (RuntimeException | AssertionError e) {
-                    detach(l, "epochEnded", e);
-                }
-            }
-        }
+        listeners.epochEnded(this, this);
         inListeners = false;
-    }
-
-    private void detach(int l, String where, Throwable e) {
-        detached[l] = true;
-        String line = listeners[l].getClass().getName() + " threw in " + where + "() in round " + round + ": " + e;
-        failures.add(line);
-        LOG.warn("listener detached for the rest of the fit: {}", line, e);
     }
 
     private StopReason budgetReason() {
@@ -982,14 +945,7 @@ final class RoundLoop implements StepView, Probe, FitControl {
 
     @Override
     public void restoreParameters(double[] parameters) {
-        if (parameters.length != p) {
-            throw new IllegalArgumentException("restored parameters have " + parameters.length + " entries, expected " + p);
-        }
-        for (int j = 0; j < p; j++) {
-            if (!Double.isFinite(parameters[j])) {
-                throw new IllegalArgumentException("restored parameters[" + j + "] is " + parameters[j]);
-            }
-        }
+        Arguments.finiteVector("restored parameters", parameters, p);
         if (restored == null) {
             restored = new double[p];
         }
