@@ -515,14 +515,9 @@ final class FitLoop implements StepView, Probe, FitControl {
         if (heldOut == null) {
             throw new IllegalStateException("this fit has no held-out data; pass it with FitOptions.builder().heldOut(...)");
         }
-        int m = heldOut.size();
         freshParameters();
-        double sum = 0;
-        for (int i = 0; i < m; i++) {
-            sum += heldOut.sampleLoss(h, i);
-        }
-        probeEvaluations += m;
-        return sum / m;
+        probeEvaluations += heldOut.size();
+        return heldOut.dataLoss(h);
     }
 
     @Override

@@ -48,6 +48,16 @@ public interface Objective {
      */
     double batchGradient(double[] h, int[] batch, double[] scales, int from, int length, double[] g);
 
+    /** @return (1/n) Σ<sub>i</sub> ω<sub>i</sub> ℓ<sub>i</sub>(h), the data term alone (no penalty; n loss evaluations) */
+    default double dataLoss(double[] h) {
+        int n = size();
+        double sum = 0;
+        for (int i = 0; i < n; i++) {
+            sum += sampleLoss(h, i);
+        }
+        return sum / n;
+    }
+
     /** @return L(h), the data term plus the whole penalty */
     double value(double[] h);
 

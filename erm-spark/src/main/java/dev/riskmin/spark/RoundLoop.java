@@ -879,13 +879,8 @@ final class RoundLoop implements StepView, Probe, FitControl {
         if (heldOut == null) {
             throw new IllegalStateException("this fit has no held-out data; pass it with FitOptions.builder().heldOut(...)");
         }
-        int m = heldOut.size();
-        double sum = 0;
-        for (int i = 0; i < m; i++) {
-            sum += heldOut.sampleLoss(h, i);
-        }
-        probeEvaluations += m;
-        return sum / m;
+        probeEvaluations += heldOut.size();
+        return heldOut.dataLoss(h);
     }
 
     @Override
